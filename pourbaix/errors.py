@@ -1,0 +1,63 @@
+"""The project's error hierarchy: every bad-input error derives from one class."""
+
+__all__ = [
+    "PourbaixError",
+    "FormulaError",
+    "DataError",
+    "DataFileError",
+    "UnknownSpeciesError",
+    "ConditionsError",
+    "OptionError",
+    "ExportError",
+]
+
+
+class PourbaixError(Exception):
+    """Root of every error this package raises for bad input or bad data.
+
+    The command line catches this class, prints its message on one line and
+    exits with status 2.
+    """
+
+
+class FormulaError(PourbaixError, ValueError):
+    """A species formula could not be parsed; the message shows the position."""
+
+
+class DataError(PourbaixError, ValueError):
+    """A species table or data set is invalid or incomplete."""
+
+
+class DataFileError(DataError):
+    """One or more rows of a species or sources file are invalid.
+
+    Attributes
+    ----------
+    problems : list of tuple
+        ``(path, line, column, message)`` for every fault found in the file,
+        so a user sees all of them at once.
+    """
+
+    def __init__(self, problems):
+        self.problems = list(problems)
+        lines = [f"{p}:{ln}:{col}: {msg}" if col else f"{p}:{ln}: {msg}" for p, ln, col, msg in self.problems]
+        super().__init__("\n".join(lines))
+
+
+class UnknownSpeciesError(DataError, KeyError):
+    """A species named by the user is not in the tables."""
+
+    def __str__(self):  # KeyError would quote the message
+        return str(self.args[0]) if self.args else ""
+
+
+class ConditionsError(PourbaixError, ValueError):
+    """Conditions (temperature, activity, ionic strength, window...) are out of range."""
+
+
+class OptionError(PourbaixError, ValueError):
+    """A named choice (reference electrode, model, data set...) is not known."""
+
+
+class ExportError(PourbaixError, OSError):
+    """An output file could not be written; nothing partial is left behind."""
