@@ -1,0 +1,409 @@
+"""The ``pourbaix`` command line: maps, probes, boundary equations and data listings."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import math
+import sys
+from pathlib import Path
+
+from .errors import OptionError, PourbaixError
+
+__all__ = ["main", "build_parser"]
+
+SAFETY = (
+    "Safety: a map is a thermodynamic prediction (equilibrium only). It says nothing about rates, "
+    "film quality, pitting, crevices, stress corrosion or microbiology. Cathodic-protection "
+    "criteria, drinking-water decisions and leach chemistries (cyanide, strong acids, sulfide/H2S) "
+    "are for local codes, the applicable standards and licensed practice to decide."
+)
+
+_OUT_KINDS = (".png", ".svg", ".pdf", ".json", ".csv")
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse with our exit status 2 and a one-line message."""
+
+    def error(self, message):
+        self.print_usage(sys.stderr)
+        sys.stderr.write(f"pourbaix: error: {message}\n")
+        raise SystemExit(2)
+
+
+def _positive_float(text):
+    try:
+        v = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"not a number: {text!r}") from None
+    if not (math.isfinite(v) and v > 0):
+        raise argparse.ArgumentTypeError(f"must be a positive number, got {text!r}")
+    return v
+
+
+def _float(text):
+    try:
+        v = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"not a number: {text!r}") from None
+    if not math.isfinite(v):
+        raise argparse.ArgumentTypeError(f"must be finite, got {text!r}")
+    return v
+
+
+def _ligand(text):
+    if "=" not in text:
+        raise argparse.ArgumentTypeError(f"expected NAME=ACTIVITY such as S=1e-3, got {text!r}")
+    name, _, value = text.partition("=")
+    try:
+        v = float(value)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"ligand {name!r}: activity {value!r} is not a number") from None
+    if not (math.isfinite(v) and v > 0):
+        raise argparse.ArgumentTypeError(f"ligand {name!r}: activity must be > 0, got {value!r}")
+    return name.strip(), v
+
+
+def _ratio(text):
+    parts = text.replace(",", ":").split(":")
+    try:
+        vals = tuple(float(p) for p in parts)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected amounts like 70:19:11, got {text!r}") from None
+    if any(not (math.isfinite(v) and v > 0) for v in vals):
+        raise argparse.ArgumentTypeError(f"ratio amounts must be > 0, got {text!r}")
+    return vals
+
+
+def _add_conditions(p, window=True):
+    g = p.add_argument_group("conditions")
+    g.add_argument("element", nargs="+", help="element symbol(s); several metals need --ratio")
+    g.add_argument("--activity", type=_positive_float, help="activity of dissolved species (default 1e-6)")
+    g.add_argument("--molality", type=_positive_float, help="molality of dissolved species [mol/kg] (instead of --activity)")
+    if window:
+        g.add_argument("--ph", nargs=2, type=_float, metavar=("LO", "HI"), default=(-2.0, 16.0), help="pH window (default -2 16)")
+        g.add_argument(
+            "--potential", nargs=2, type=_float, metavar=("LO", "HI"), default=(-2.0, 2.0), help="potential window [V vs --reference] (default -2 2)"
+        )
+    g.add_argument("--reference", default="SHE", help="reference electrode for all potentials (see `pourbaix references`)")
+    g.add_argument("--temperature", type=_float, default=25.0, metavar="C", help="temperature [°C], 0-300 (default 25)")
+    g.add_argument("--pressure", type=_positive_float, metavar="BAR", help="pressure [bar] (default 1, or saturation above 100 °C)")
+    g.add_argument("--ionic-strength", type=_float, metavar="I", help="ionic strength [mol/kg]")
+    g.add_argument("--background", metavar="SALT=M,...", help="background electrolyte, e.g. NaCl=0.5,CaCl2=0.01 [mol/kg]")
+    g.add_argument("--activity-model", default="davies", help="davies, extended-debye-huckel or b-dot (default davies)")
+    g.add_argument("--water-activity", type=_positive_float, default=1.0, help="activity of water (below 1 for brines)")
+    g.add_argument("--ligand", action="append", type=_ligand, default=[], metavar="NAME=A", help="ligand total activity, e.g. S=1e-3, Cl=0.1, CN=1e-3 (repeatable)")
+    g.add_argument("--ratio", type=_ratio, help="amounts of the metals, e.g. 70:19:11 for Fe Cr Ni")
+    g.add_argument("--exclude", nargs="+", default=[], metavar="SPECIES", help="species to leave out")
+    g.add_argument("--only", nargs="+", metavar="SPECIES", help="keep only these species (and the element)")
+    g.add_argument(
+        "--metastable", choices=("exclude", "include", "only"), default="exclude", help="metastable solids: leave out (default), include, or use instead of stable ones"
+    )
+    g.add_argument("--dataset", default="default", help="data set (see `pourbaix datasets`)")
+    g.add_argument("--data", action="append", default=[], metavar="FILE", help="user species table (same columns); repeatable")
+
+
+def _map_kwargs(a):
+    return dict(
+        activity=a.activity,
+        molality=a.molality,
+        temperature_c=a.temperature,
+        pressure_bar=a.pressure,
+        ionic_strength=a.ionic_strength,
+        background=a.background,
+        activity_model=a.activity_model,
+        water_activity=a.water_activity,
+        ligands=dict(a.ligand) or None,
+        ratio=a.ratio,
+        ph_range=tuple(a.ph) if a.window else (-2.0, 16.0),
+        potential_range_v=tuple(a.potential) if a.window else (-2.0, 2.0),
+        reference=a.reference,
+        dataset=a.dataset,
+        data_files=tuple(a.data),
+        exclude=tuple(a.exclude),
+        only=tuple(a.only) if a.only else None,
+        metastable=a.metastable,
+    )
+
+
+def _compute(a):
+    from .domain_map import compute_map
+
+    return compute_map(a.element, **_map_kwargs(a))
+
+
+def _print_warnings(dmap):
+    for w in dmap.warnings:
+        print(f"pourbaix: note: {w}", file=sys.stderr)
+
+
+def _fmt_margin(v, unit):
+    if v is None or not math.isfinite(v):
+        return "none"
+    return f"{v * 1000:.0f} mV" if unit == "V" else f"{v:.2f} pH"
+
+
+# ------------------------------------------------------------------ commands
+def cmd_map(a):
+    """Draw and/or export a map."""
+    outs = [Path(o) for o in a.out]
+    for o in outs:
+        if o.suffix.lower() not in _OUT_KINDS:
+            raise OptionError(f"--out {o}: unknown file type {o.suffix or '(none)'}; use one of {', '.join(_OUT_KINDS)}")
+    from .export import check_writable
+
+    for o in outs:
+        check_writable(o)
+    dmap = _compute(a)
+    _print_warnings(dmap)
+    figure_outs = [o for o in outs if o.suffix.lower() in (".png", ".svg", ".pdf")]
+    for o in outs:
+        if o.suffix.lower() == ".json":
+            dmap.to_json(o)
+        elif o.suffix.lower() == ".csv":
+            dmap.boundaries_csv(o)
+    if figure_outs:
+        from . import draw
+
+        ax = draw.draw_map(dmap, reading=a.reading, second_reference=a.second_axis)
+        for o in figure_outs:
+            draw.save_figure(ax, o)
+    for o in outs:
+        print(f"wrote {o}")
+    print(f"{len(dmap.domains)} domains: " + ", ".join(" + ".join(d.species) for d in dmap.domains))
+    if dmap.never_stable:
+        print("never stable in the window: " + ", ".join(dmap.never_stable))
+    return 0
+
+
+def cmd_probe(a):
+    """Report the stable species at a point."""
+    dmap = _compute(a)
+    _print_warnings(dmap)
+    r = dmap.probe(a.ph, a.potential)
+    if a.json:
+        row = r.rows()[0]
+        row["reference"] = dmap.conditions.reference
+        row["temperature_c"] = dmap.conditions.temperature_c
+        print(json.dumps(row, indent=2))
+        return 0
+    ref = dmap.conditions.reference
+    print(f"{'-'.join(dmap.conditions.elements)} at pH {a.ph:g}, E = {a.potential:+.3f} V vs {ref}, {dmap.conditions.temperature_c:g} °C")
+    print(f"  stable:  {r.species}")
+    print(f"  state:   {r.state}")
+    print("  margins to the nearest boundaries:")
+    print(f"    up    {_fmt_margin(r.margin_up_v, 'V'):>9}  -> {r.neighbour_up or '-'}")
+    print(f"    down  {_fmt_margin(r.margin_down_v, 'V'):>9}  -> {r.neighbour_down or '-'}")
+    print(f"    acid  {_fmt_margin(r.margin_acid_ph, 'pH'):>9}  -> {r.neighbour_acid or '-'}")
+    print(f"    base  {_fmt_margin(r.margin_alkaline_ph, 'pH'):>9}  -> {r.neighbour_alkaline or '-'}")
+    if r.state == "passivation":
+        print("  (passivation: a solid is thermodynamically stable; whether it protects is a kinetic question)")
+    return 0
+
+
+def cmd_lines(a):
+    """Print every boundary's reaction and equation."""
+    from .lines import boundary_equations
+
+    dmap = _compute(a)
+    _print_warnings(dmap)
+    rows = boundary_equations(dmap)
+    if a.json:
+        print(json.dumps(rows, indent=2, ensure_ascii=False))
+        return 0
+    ref = dmap.conditions.reference
+    c = dmap.conditions
+    print(f"Boundaries of {'-'.join(c.elements)} at {c.temperature_c:g} °C, potentials vs {ref}; k = {rows[0]['nernst_v'] if rows else 0:.5f} V")
+    for i, r in enumerate(rows, 1):
+        print(f"\n{i:2d}. {r['between'][0]}  |  {r['between'][1]}")
+        print(f"    {r['reaction']}")
+        if r.get("e0_v_she") is not None:
+            print(f"    E0 = {r['e0_v_she']:+.4f} V vs SHE;  {r['nernst']}")
+        elif r.get("log_k") is not None:
+            print(f"    log K = {r['log_k']:.3f};  {r['nernst']}")
+        print(f"    line: {r['line']}")
+    w = dmap.water
+    print(f"\nwater: O2/H2O  E = {w['oxygen'][0]:+.4f} {w['oxygen'][1]:+.5f} pH;  H2O/H2  E = {w['hydrogen'][0]:+.4f} {w['hydrogen'][1]:+.5f} pH  (V vs {ref})")
+    return 0
+
+
+def cmd_species(a):
+    """List the species of a system."""
+    from .data import load_species
+
+    table = load_species(a.dataset, tuple(a.data))
+    for msg in table.overrides:
+        print(f"pourbaix: note: {msg}", file=sys.stderr)
+    els = set(a.element)
+    from .domain_map import _parse_elements
+
+    _parse_elements(a.element)
+    rows = [s for s in table.for_elements(els) if els & set(s.composition)]
+    if not rows:
+        raise OptionError(f"no species of {' '.join(a.element)} in the tables (data set {table.dataset})")
+    if a.json:
+        out = []
+        for s in rows:
+            d = {
+                "name": s.name,
+                "phase": s.phase,
+                "composition": dict(s.composition),
+                "charge": s.charge,
+                "dgf_kj_mol": s.dgf_kj_mol,
+                "source": s.source,
+            }
+            for k in ("dhf_kj_mol", "s_j_molk", "cp_j_molk"):
+                v = getattr(s, k)
+                if v is not None:
+                    d[k] = v
+            d["metastable"] = s.metastable
+            d["note"] = s.note
+            d["origin"] = s.origin
+            out.append(d)
+        print(json.dumps(out, indent=2, ensure_ascii=False))
+        return 0
+    print(f"{len(rows)} species with {' '.join(a.element)} (data set {table.dataset}; ΔfG° at 25 °C, kJ/mol)")
+    w = max(len(s.name) for s in rows)
+    print(f"{'species':<{w}}  phase  {'ΔfG°':>10}  {'ΔfH°':>10}  {'S°':>8}  source      note")
+    for s in rows:
+        dh = "" if s.dhf_kj_mol is None else f"{s.dhf_kj_mol:10.2f}"
+        so = "" if s.s_j_molk is None else f"{s.s_j_molk:8.2f}"
+        note = ("[metastable] " if s.metastable else "") + (s.note or "")
+        print(f"{s.name:<{w}}  {s.phase:<5}  {s.dgf_kj_mol:10.2f}  {dh:>10}  {so:>8}  {s.source:<10}  {note}")
+    print("\nsources:")
+    for key in sorted({s.source for s in rows}):
+        print(f"  {key}: {table.sources.get(key, '(user-provided)')}")
+    return 0
+
+
+def cmd_references(a):
+    """List the reference electrodes."""
+    from .electrodes import list_references
+
+    refs = list_references()
+    if a.json:
+        print(json.dumps(refs, indent=2, ensure_ascii=False))
+        return 0
+    print("Reference electrodes (potential vs SHE at 25 °C; E(SHE) = E(ref) + offset)")
+    for r in refs:
+        off = r.get("offset_v")
+        off_txt = "-0.05916 pH" if off is None else f"{off:+.4f} V"
+        print(f"  {r['name']:<18} {off_txt:>12}   {r.get('description', '')}")
+        print(f"  {'':<18} {'':>12}   source: {r.get('source', '')}")
+    return 0
+
+
+def cmd_datasets(a):
+    """List the data sets."""
+    from .data import available_datasets
+
+    for name, desc in available_datasets().items():
+        print(f"{name}: {desc}")
+    return 0
+
+
+# ------------------------------------------------------------------ parser
+def build_parser():
+    """The argument parser (exposed for documentation and tests)."""
+    p = _Parser(
+        prog="pourbaix",
+        description="Exact potential-pH (Pourbaix) maps from traceable thermodynamic data.",
+        epilog=SAFETY,
+    )
+    from . import __version__
+
+    p.add_argument("--version", action="version", version=f"pourbaix {__version__}")
+    sub = p.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    sub.required = True
+
+    m = sub.add_parser(
+        "map",
+        help="draw or export a map",
+        description="Compute the exact map of an element system and write it as PNG, SVG, PDF, JSON (map format v1) or CSV (boundaries).",
+        epilog="example: pourbaix map Fe --activity 1e-6 --reference SCE --out fe.png --out fe.json\n\n" + SAFETY,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    _add_conditions(m)
+    m.add_argument("--out", action="append", required=True, metavar="FILE", help="output file; extension picks the kind (.png .svg .pdf .json .csv); repeatable")
+    m.add_argument("--reading", action="store_true", help="shade the corrosion reading (immunity / passivation / corrosion)")
+    m.add_argument("--second-axis", metavar="REFERENCE", help="add a right-hand potential axis vs another reference")
+    m.set_defaults(func=cmd_map, window=True)
+
+    pr = sub.add_parser(
+        "probe",
+        help="what is stable at a point, with margins",
+        description="Report the stable species, the corrosion reading and the distances to the nearest boundaries at one pH and potential.",
+        epilog="example: pourbaix probe Fe --ph 7 --potential -0.6 --reference SCE\n\n" + SAFETY,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    _add_conditions(pr, window=False)
+    pr.add_argument("--ph", type=_float, required=True, metavar="X", help="pH of the point")
+    pr.add_argument("--potential", type=_float, required=True, metavar="E", help="potential of the point [V vs --reference]")
+    pr.add_argument("--json", action="store_true", help="print JSON")
+    pr.set_defaults(func=cmd_probe, window=False)
+
+    ln = sub.add_parser(
+        "lines",
+        help="each boundary's reaction and equation",
+        description="Print every boundary of the map with the reaction it comes from, its E0 and its Nernst form.",
+        epilog="example: pourbaix lines Cu --activity 1e-6\n\n" + SAFETY,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    _add_conditions(ln)
+    ln.add_argument("--json", action="store_true", help="print JSON")
+    ln.set_defaults(func=cmd_lines, window=True)
+
+    sp = sub.add_parser(
+        "species",
+        help="list the species of a system with values and sources",
+        description="List the species holding the element(s) with ΔfG°, phase, source and notes.",
+        epilog="example: pourbaix species Fe --json",
+    )
+    sp.add_argument("element", nargs="+")
+    sp.add_argument("--dataset", default="default")
+    sp.add_argument("--data", action="append", default=[], metavar="FILE")
+    sp.add_argument("--json", action="store_true")
+    sp.set_defaults(func=cmd_species)
+
+    rf = sub.add_parser("references", help="list reference electrodes with values and sources", epilog="example: pourbaix references")
+    rf.add_argument("--json", action="store_true")
+    rf.set_defaults(func=cmd_references)
+
+    ds = sub.add_parser("datasets", help="list the data sets", epilog="example: pourbaix datasets")
+    ds.set_defaults(func=cmd_datasets)
+
+    _add_analysis_commands(sub)
+    return p
+
+
+def _add_analysis_commands(sub):
+    try:
+        from .analyses import cli_commands
+    except ImportError:
+        return
+    cli_commands.register(sub, _add_conditions, _map_kwargs)
+
+
+def main(argv=None):
+    """Run the command line; returns the exit status.
+
+    Parameters
+    ----------
+    argv : list of str, optional
+        Arguments (default ``sys.argv[1:]``).
+    """
+    parser = build_parser()
+    # Negative numbers as option values (e.g. --potential -1 1) are ordinary here.
+    a = parser.parse_args(argv)
+    try:
+        return a.func(a) or 0
+    except PourbaixError as exc:
+        msg = str(exc)
+        print(f"pourbaix: error: {msg}", file=sys.stderr)
+        return 2
+    except BrokenPipeError:  # pragma: no cover
+        return 0
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())

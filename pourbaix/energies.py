@@ -1,0 +1,259 @@
+"""Transformed free energies: each species as a plane over (pH, potential).
+
+For a species i = M_x H_h O_o (charge z) formed from the metal M, water,
+H+ and electrons (DESIGN §2.1; Pourbaix 1974, ch. II),
+
+    x M + o H2O  ->  i + (2o - h) H+ + (2o - h + z) e-
+
+the transformed energy per atom of M at (pH, E) is
+
+    psi_i = [dG_r + R T ln a_i - o R T ln a_w
+             - (2o - h) R T ln10 pH - (2o - h + z) F E] / x        [J/mol]
+
+with dG_r = G_i + n_e G_e - x G_M - o G_w built from apparent Gibbs energies
+at T (Benson-Helgeson convention). G(H+) = 0 and G_e = G(H2, g)/2 at every T,
+so the standard hydrogen electrode is the zero of potential at every
+temperature. Dividing by F gives psi in volts, the unit used throughout.
+Ligand atoms (S, C, Cl, N ...) are taken from the ligand species that
+predominates at the point (predominant-ligand method, DESIGN §2.4); the planes
+here carry that species' own plane, so the subtraction stays linear.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from . import thermo
+from .errors import ConditionsError
+
+__all__ = ["SpeciesEnergy", "EnergyContext", "make_context", "species_energy", "water_lines"]
+
+_FARADAY_KJ = thermo.F / 1000.0  # kJ/(mol V)
+
+
+@dataclass(frozen=True)
+class EnergyContext:
+    """Everything about the conditions that the planes need.
+
+    Attributes
+    ----------
+    temperature_c : float
+        Temperature [°C].
+    pressure_bar : float
+        Pressure [bar].
+    nernst_v : float
+        R T ln10 / F [V].
+    g_water_kj : float
+        Apparent Gibbs energy of liquid water at T [kJ/mol].
+    g_electron_kj : float
+        Half the apparent Gibbs energy of H2(g) at T [kJ/mol] (SHE convention).
+    g_oxygen_kj : float
+        Apparent Gibbs energy of O2(g) at T [kJ/mol].
+    water_activity : float
+        Activity of water [-].
+    element_g_kj : dict
+        Apparent Gibbs energy of each element's reference species at T [kJ/mol].
+    """
+
+    temperature_c: float
+    pressure_bar: float
+    nernst_v: float
+    g_water_kj: float
+    g_electron_kj: float
+    g_oxygen_kj: float
+    water_activity: float
+    element_g_kj: dict
+
+
+@dataclass(frozen=True)
+class SpeciesEnergy:
+    """One species' data at the map's conditions.
+
+    Attributes
+    ----------
+    species : Species
+        The table row.
+    dg_kj_mol : float
+        Gibbs energy used at the map's temperature [kJ/mol].
+    route : str
+        How ``dg_kj_mol`` was obtained (e.g. "25 °C value", "constant Cp").
+    valid_to_c : float
+        Upper temperature limit of that route [°C].
+    activity : float
+        Activity used [-] (dissolved: activity times activity coefficient).
+    gamma : float
+        Activity coefficient applied [-].
+    plane : tuple of float
+        ``(c0, cph, ce)`` per atom of the principal element, vs SHE
+        [V, V/pH, V/V], before any ligand term.
+    """
+
+    species: object
+    dg_kj_mol: float
+    route: str
+    valid_to_c: float
+    activity: float
+    gamma: float
+    plane: tuple
+
+
+def _gibbs(sp, temperature_c):
+    if temperature_c == 25.0:
+        return sp.dgf_kj_mol, "25 °C value", float("inf")
+    res = thermo.species_gibbs(sp, temperature_c)
+    return float(res.dg_kj_mol), res.route, float(res.valid_to_c)
+
+
+def make_context(table, temperature_c=25.0, pressure_bar=None, water_activity=1.0, elements=()):
+    """Build the condition-dependent constants for the planes.
+
+    Parameters
+    ----------
+    table : SpeciesTable
+        Species tables (must hold H2O(l), H2(g) and O2(g)).
+    temperature_c : float
+        Temperature [°C].
+    pressure_bar : float, optional
+        Pressure [bar]; default 1 bar below 100 °C, saturation above.
+    water_activity : float
+        Activity of liquid water [-].
+    elements : iterable of str
+        Elements whose reference (zero-valent) species sets their zero.
+
+    Returns
+    -------
+    EnergyContext
+
+    Raises
+    ------
+    ConditionsError
+        If the water activity is not in (0, 1] or T is out of range.
+    """
+    if not (0.0 < float(water_activity) <= 1.0):
+        raise ConditionsError(f"water activity must be in (0, 1], got {water_activity}")
+    t = float(temperature_c)
+    props = thermo.water_properties(t, pressure_bar)
+    water = table.get("H2O", "l")
+    h2 = table.get("H2", "g")
+    o2 = table.get("O2", "g")
+    if t == 25.0:
+        g_w = water.dgf_kj_mol
+    else:
+        # the table's 25 °C value carried to T by IAPWS-95 (keeps one source for water)
+        shift = thermo.water_gibbs(t, props.pressure_bar) - thermo.water_gibbs(25.0, 1.0)
+        g_w = water.dgf_kj_mol + float(shift)
+    g_h2 = _gibbs(h2, t)[0]
+    g_o2 = _gibbs(o2, t)[0]
+    element_g = {}
+    for el in elements:
+        element_g[el] = _gibbs(reference_species(table, el), t)[0]
+    return EnergyContext(
+        temperature_c=t,
+        pressure_bar=float(props.pressure_bar),
+        nernst_v=float(thermo.nernst_factor(t)),
+        g_water_kj=float(g_w),
+        g_electron_kj=0.5 * g_h2,
+        g_oxygen_kj=float(g_o2),
+        water_activity=float(water_activity),
+        element_g_kj=element_g,
+    )
+
+
+def reference_species(table, element):
+    """The element in its standard state (the zero of formation energies).
+
+    Parameters
+    ----------
+    table : SpeciesTable
+        Species tables.
+    element : str
+        Element symbol.
+
+    Returns
+    -------
+    Species
+        The uncharged, single-element, non-metastable row with ΔfG° = 0.
+
+    Raises
+    ------
+    DataError
+        If the tables hold no such row.
+    """
+    from .errors import DataError
+
+    for sp in table.species:
+        comp = dict(sp.composition)
+        if list(comp) == [element] and sp.charge == 0 and sp.dgf_kj_mol == 0.0 and not sp.metastable:
+            return sp
+    raise DataError(f"the tables hold no reference state (ΔfG° = 0) for element {element!r}")
+
+
+def species_energy(sp, element, ctx, activity=1.0, gamma=1.0, ligand_elements=()):
+    """Plane of one species per atom of ``element``.
+
+    Parameters
+    ----------
+    sp : Species
+        Table row; its elements must be ``element``, H, O and ``ligand_elements``.
+    element : str
+        Principal element M.
+    ctx : EnergyContext
+        Conditions.
+    activity : float
+        Activity of the species [-] (1 for solids and water).
+    gamma : float
+        Activity coefficient already included in ``activity`` [-] (reported only).
+    ligand_elements : iterable of str
+        Other elements allowed; their atoms are left in the plane and must be
+        removed by the caller with the ligand species' planes.
+
+    Returns
+    -------
+    SpeciesEnergy
+    """
+    comp = dict(sp.composition)
+    x = comp.get(element, 0)
+    if x <= 0:
+        raise ConditionsError(f"species {sp.name} holds no {element}")
+    extra = set(comp) - {element, "H", "O"} - set(ligand_elements)
+    if extra:
+        raise ConditionsError(f"species {sp.name} holds {', '.join(sorted(extra))}, outside the system")
+    h, o, z = comp.get("H", 0), comp.get("O", 0), sp.charge
+    dg, route, valid = _gibbs(sp, ctx.temperature_c)
+    k = ctx.nernst_v
+    n_h = 2 * o - h
+    n_e = 2 * o - h + z
+    # DESIGN §2.1: dG_r = G_i + n_e G_e - x G_M - o G_w  (formation from M, H2O, H+, e-)
+    dg_r = dg + n_e * ctx.g_electron_kj - x * ctx.element_g_kj.get(element, 0.0) - o * ctx.g_water_kj
+    c0 = (dg_r / _FARADAY_KJ + k * np.log10(activity) - o * k * np.log10(ctx.water_activity)) / x
+    plane = (float(c0), float(-n_h * k / x), float(-n_e / x))
+    return SpeciesEnergy(sp, float(dg), route, valid, float(activity), float(gamma), plane)
+
+
+def water_lines(ctx, oxygen_bar=1.0, hydrogen_bar=1.0):
+    """The stability limits of water vs SHE at the context's temperature.
+
+    Parameters
+    ----------
+    ctx : EnergyContext
+        Conditions.
+    oxygen_bar, hydrogen_bar : float
+        Partial pressures of O2 and H2 [bar].
+
+    Returns
+    -------
+    dict
+        ``{"oxygen": (e_at_ph0_v, slope_v_per_ph), "hydrogen": (...)}`` [V, V/pH].
+
+    Notes
+    -----
+    O2 + 4 H+ + 4 e- = 2 H2O:  E = -(2 G_w - G_O2 - 4 G_e)/(4F) + k/4 log(p_O2 a_w^-2) - k pH;
+    2 H+ + 2 e- = H2:          E = -(k/2) log p_H2 - k pH  (Nernst; Bard & Faulkner 2001, eq. 2.1.38).
+    """
+    k = ctx.nernst_v
+    e_o2 = -(2 * ctx.g_water_kj - ctx.g_oxygen_kj - 4 * ctx.g_electron_kj) / (4 * _FARADAY_KJ)
+    e_o2 += k / 4 * (np.log10(oxygen_bar) - 2 * np.log10(ctx.water_activity))
+    e_h2 = -(k / 2) * np.log10(hydrogen_bar)
+    return {"oxygen": (float(e_o2), -k), "hydrogen": (float(e_h2), -k)}

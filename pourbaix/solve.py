@@ -1,0 +1,347 @@
+"""Exact stability domains: the lower envelope of planes over a rectangular window.
+
+Each candidate (a species, or an assemblage of species) has a transformed
+energy that is linear in pH and potential,
+
+    psi_i(pH, E) = c0_i + cph_i * pH + ce_i * E          [V per atom of metal]
+
+and the stable candidate at a point is the one with the lowest psi. The domain
+of candidate i is ``window ∩ {psi_i <= psi_j for all j}``, a convex polygon.
+All domains together are the projection of the upper facets of the 3-D
+half-space intersection ``{z <= psi_i(x, y) for all i} ∩ box``, which Qhull
+computes in O(N log N) (Barber, Dobkin & Huhdanpaa, ACM TOMS 22, 469, 1996;
+scipy.spatial.HalfspaceIntersection). No grid is involved.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+from scipy.spatial import HalfspaceIntersection, QhullError
+
+from .errors import ConditionsError
+
+__all__ = ["Envelope", "Edge", "lower_envelope", "clip_domains"]
+
+# Two vertices closer than this (in window-normalised units) are one vertex;
+# a plane within this (in volts) of the envelope at a vertex is on it.
+_VERTEX_TOL = 1e-9
+_PLANE_TOL = 1e-9
+# Domains smaller than this fraction of the window area are touching points
+# or slivers produced by rounding, not stability fields.
+_AREA_TOL = 1e-12
+
+
+@dataclass(frozen=True)
+class Edge:
+    """A boundary segment shared by two domains.
+
+    Attributes
+    ----------
+    pair : tuple of int
+        Indices ``(i, j)`` of the two planes, ``i < j``.
+    start, end : tuple of float
+        End points ``(pH, E)`` of the segment [pH, V].
+    e_at_ph0_v : float
+        Potential of the boundary line at pH 0 [V]; ``nan`` for a vertical line.
+    slope_v_per_ph : float
+        Slope of the boundary line [V/pH]; ``inf`` for a vertical line.
+    ph_at_vertical : float
+        pH of a vertical boundary (``nan`` otherwise) [pH].
+    """
+
+    pair: tuple[int, int]
+    start: tuple[float, float]
+    end: tuple[float, float]
+    e_at_ph0_v: float
+    slope_v_per_ph: float
+    ph_at_vertical: float = float("nan")
+
+
+@dataclass(frozen=True)
+class Envelope:
+    """Result of the exact solve.
+
+    Attributes
+    ----------
+    polygons : list of ndarray or None
+        For each input plane, the counter-clockwise vertices ``(k, 2)`` of its
+        domain in (pH, E), or None when the plane is never lowest in the window.
+    edges : list of Edge
+        Every shared boundary segment.
+    coincident : dict
+        ``{j: i}`` for planes identical to an earlier plane ``i`` (within
+        rounding); such a plane gets no domain of its own.
+    window : tuple of float
+        ``(ph_lo, ph_hi, e_lo, e_hi)``.
+    """
+
+    polygons: list
+    edges: list
+    coincident: dict = field(default_factory=dict)
+    window: tuple = (0.0, 1.0, 0.0, 1.0)
+
+    @property
+    def stable(self):
+        """Indices of the planes that have a domain."""
+        return [i for i, p in enumerate(self.polygons) if p is not None]
+
+
+def _check_window(window):
+    try:
+        x0, x1, y0, y1 = (float(v) for v in window)
+    except (TypeError, ValueError) as exc:
+        raise ConditionsError(f"window must be four numbers (pH lo, pH hi, E lo, E hi), got {window!r}") from exc
+    if not all(np.isfinite([x0, x1, y0, y1])):
+        raise ConditionsError(f"window limits must be finite, got {window!r}")
+    if not (x1 > x0):
+        raise ConditionsError(f"pH range must increase: got {x0} .. {x1}")
+    if not (y1 > y0):
+        raise ConditionsError(f"potential range must increase: got {y0} .. {y1} V")
+    return x0, x1, y0, y1
+
+
+def _dedupe(planes):
+    """Map each plane that repeats an earlier one (within rounding) to it."""
+    coincident = {}
+    scale = 1.0 + np.abs(planes).max(axis=1)
+    order = np.lexsort(planes.T[::-1])
+    for a, b in zip(order[:-1], order[1:], strict=False):
+        if np.all(np.abs(planes[a] - planes[b]) <= 1e-12 * max(scale[a], scale[b])):
+            keep, drop = min(a, b), max(a, b)
+            root = coincident.get(keep, keep)
+            coincident[drop] = root
+    # resolve chains so every duplicate points at its first occurrence
+    for j in sorted(coincident):
+        i = coincident[j]
+        while i in coincident:
+            i = coincident[i]
+        coincident[j] = i
+    return {int(j): int(i) for j, i in coincident.items()}
+
+
+def _order_ccw(points):
+    c = points.mean(axis=0)
+    ang = np.arctan2(points[:, 1] - c[1], points[:, 0] - c[0])
+    return points[np.argsort(ang, kind="stable")]
+
+
+def _polygon_area(poly):
+    x, y = poly[:, 0], poly[:, 1]
+    return 0.5 * float(np.dot(x, np.roll(y, -1)) - np.dot(y, np.roll(x, -1)))
+
+
+def _unique_rows(points, tol):
+    if len(points) == 0:
+        return points
+    keep = [points[0]]
+    for p in points[1:]:
+        if all(np.max(np.abs(p - q)) > tol for q in keep):
+            keep.append(p)
+    return np.array(keep)
+
+
+def lower_envelope(planes, window):
+    """Exact domains of the lowest plane over a rectangular window.
+
+    Parameters
+    ----------
+    planes : array_like, shape (N, 3)
+        Rows ``(c0, cph, ce)`` with ``psi = c0 + cph * pH + ce * E`` [V, V/pH, V/V].
+    window : sequence of 4 float
+        ``(ph_lo, ph_hi, e_lo, e_hi)`` [pH, pH, V, V].
+
+    Returns
+    -------
+    Envelope
+        Polygons per plane (None where never lowest), shared edges and the
+        planes that coincide with earlier ones.
+
+    Raises
+    ------
+    ConditionsError
+        If the window is empty or not finite, or the planes are not finite.
+
+    Notes
+    -----
+    Half-space form (scipy convention ``A x + b <= 0``) in window-normalised
+    coordinates u, v in [0, 1]: ``z - psi_i(u, v) <= 0`` for each plane, the
+    four sides of the box, and a floor ``z >= z_min`` below every plane so the
+    region is bounded. Vertices on the upper surface are those with
+    ``z = min_i psi_i``; plane i owns the vertices where it attains the
+    minimum, and its domain is their convex hull (it is convex).
+
+    Examples
+    --------
+    >>> env = lower_envelope([[0, 0, 0], [0, 0, -1]], (0, 14, -1, 1))
+    >>> [round(float(a), 6) for a in sorted(env.polygons[0][:, 1])]
+    [-1.0, -1.0, 0.0, 0.0]
+    """
+    x0, x1, y0, y1 = _check_window(window)
+    planes = np.atleast_2d(np.asarray(planes, dtype=float))
+    if planes.ndim != 2 or planes.shape[1] != 3:
+        raise ConditionsError(f"planes must have shape (N, 3), got {planes.shape}")
+    if not np.all(np.isfinite(planes)):
+        bad = int(np.argwhere(~np.isfinite(planes))[0][0])
+        raise ConditionsError(f"plane {bad} has a non-finite coefficient: {planes[bad].tolist()}")
+    n = len(planes)
+    dx, dy = x1 - x0, y1 - y0
+    # Normalise: psi = a0 + au * u + av * v with pH = x0 + dx u, E = y0 + dy v.
+    a0 = planes[:, 0] + planes[:, 1] * x0 + planes[:, 2] * y0
+    au = planes[:, 1] * dx
+    av = planes[:, 2] * dy
+    norm = np.column_stack([a0, au, av])
+
+    coincident = _dedupe(norm) if n > 1 else {}
+    active = np.array([i for i in range(n) if i not in coincident], dtype=int)
+
+    polygons = [None] * n
+    if len(active) == 1:
+        i = int(active[0])
+        polygons[i] = np.array([[x0, y0], [x1, y0], [x1, y1], [x0, y1]])
+        return Envelope(polygons, [], coincident, (x0, x1, y0, y1))
+
+    A = norm[active]
+    corners = np.array([[0, 0], [1, 0], [1, 1], [0, 1]], dtype=float)
+    corner_vals = A[:, :1] + A[:, 1:2] * corners[:, 0] + A[:, 2:3] * corners[:, 1]
+    span = float(np.ptp(corner_vals)) + 1.0
+    z_floor = float(corner_vals.min()) - span
+    hs = np.empty((len(active) + 5, 4))
+    hs[: len(active)] = np.column_stack([-A[:, 1], -A[:, 2], np.ones(len(active)), -A[:, 0]])
+    hs[len(active) :] = [
+        [-1.0, 0.0, 0.0, 0.0],  # u >= 0
+        [1.0, 0.0, 0.0, -1.0],  # u <= 1
+        [0.0, -1.0, 0.0, 0.0],  # v >= 0
+        [0.0, 1.0, 0.0, -1.0],  # v <= 1
+        [0.0, 0.0, -1.0, z_floor],  # z >= z_floor
+    ]
+    interior = np.array([0.5, 0.5, z_floor + 0.5 * span])
+    try:
+        verts = HalfspaceIntersection(hs, interior).intersections
+    except QhullError as exc:  # pragma: no cover - box + floor keeps it full-dimensional
+        raise ConditionsError(f"exact solve failed in Qhull: {exc}") from exc
+
+    # Snap to the box (Qhull rounding) and keep the upper-surface vertices.
+    uv = np.clip(verts[:, :2], 0.0, 1.0)
+    vals = A[:, :1].T + np.outer(uv[:, 0], A[:, 1]) + np.outer(uv[:, 1], A[:, 2])  # (M, K)
+    env = vals.min(axis=1)
+    top = verts[:, 2] > z_floor + 0.25 * span
+    uv, vals, env = uv[top], vals[top], env[top]
+    tol = _PLANE_TOL * (1.0 + np.abs(env).max())
+    member = vals <= env[:, None] + tol  # (M, K)
+
+    for k, i in enumerate(active):
+        pts = _unique_rows(uv[member[:, k]], _VERTEX_TOL)
+        if len(pts) < 3:
+            continue
+        poly = _order_ccw(pts)
+        if _polygon_area(poly) <= _AREA_TOL:
+            continue
+        polygons[int(i)] = np.column_stack([x0 + dx * poly[:, 0], y0 + dy * poly[:, 1]])
+
+    edges = _edges(uv, member, active, polygons, planes, (x0, dx, y0, dy))
+    return Envelope(polygons, edges, coincident, (x0, x1, y0, y1))
+
+
+def _edges(uv, member, active, polygons, planes, frame):
+    x0, dx, y0, dy = frame
+    stable_cols = [k for k, i in enumerate(active) if polygons[int(i)] is not None]
+    edges = []
+    if len(stable_cols) < 2:
+        return edges
+    sub = member[:, stable_cols]
+    for a in range(len(stable_cols)):
+        for b in range(a + 1, len(stable_cols)):
+            both = sub[:, a] & sub[:, b]
+            if both.sum() < 2:
+                continue
+            pts = _unique_rows(uv[both], _VERTEX_TOL)
+            if len(pts) < 2:
+                continue
+            i, j = int(active[stable_cols[a]]), int(active[stable_cols[b]])
+            xy = np.column_stack([x0 + dx * pts[:, 0], y0 + dy * pts[:, 1]])
+            # order the points along the segment and keep the two extremes
+            d = xy - xy[0]
+            direction = d[np.argmax(np.hypot(d[:, 0], d[:, 1]))]
+            t = d @ direction
+            p, q = xy[np.argmin(t)], xy[np.argmax(t)]
+            if np.hypot(*(q - p) / (dx, dy)) <= _VERTEX_TOL:
+                continue
+            if p[0] > q[0] or (p[0] == q[0] and p[1] > q[1]):
+                p, q = q, p
+            # Boundary line psi_i = psi_j: d0 + dph pH + de E = 0.
+            d0, dph, de = planes[i] - planes[j]
+            if abs(de) > 1e-14:
+                e0, slope, xv = -d0 / de, -dph / de, float("nan")
+            else:
+                e0, slope, xv = float("nan"), float("inf"), -d0 / dph
+            edges.append(
+                Edge((i, j), (float(p[0]), float(p[1])), (float(q[0]), float(q[1])), float(e0), float(slope), float(xv))
+            )
+    return edges
+
+
+def clip_domains(planes, window):
+    """Exact domains by clipping the window with N-1 half planes per plane.
+
+    The O(N^2) textbook route (Sutherland & Hodgman, Commun. ACM 17, 32, 1974),
+    kept as an independent exact reference for tests; ``lower_envelope`` is the
+    production route.
+
+    Parameters
+    ----------
+    planes : array_like, shape (N, 3)
+        Rows ``(c0, cph, ce)`` [V, V/pH, V/V].
+    window : sequence of 4 float
+        ``(ph_lo, ph_hi, e_lo, e_hi)`` [pH, pH, V, V].
+
+    Returns
+    -------
+    list of ndarray or None
+        Counter-clockwise polygon per plane, None where empty. Ties go to the
+        lower index, as in ``lower_envelope``.
+    """
+    x0, x1, y0, y1 = _check_window(window)
+    planes = np.atleast_2d(np.asarray(planes, dtype=float))
+    box = np.array([[x0, y0], [x1, y0], [x1, y1], [x0, y1]])
+    out = []
+    coincident = _dedupe(planes) if len(planes) > 1 else {}
+    for i, pi in enumerate(planes):
+        if i in coincident:
+            out.append(None)
+            continue
+        poly = box
+        for j, pj in enumerate(planes):
+            if j == i or j in coincident:
+                continue
+            d = pi - pj  # keep d0 + dph x + de y <= 0
+            poly = _clip(poly, d)
+            if poly is None:
+                break
+        if poly is not None and abs(_polygon_area(poly)) > _AREA_TOL * (x1 - x0) * (y1 - y0):
+            out.append(poly)
+        else:
+            out.append(None)
+    return out
+
+
+def _clip(poly, d):
+    vals = d[0] + d[1] * poly[:, 0] + d[2] * poly[:, 1]
+    if np.all(vals <= 1e-12):
+        return poly
+    if np.all(vals > -1e-12):
+        return None
+    res = []
+    n = len(poly)
+    for k in range(n):
+        p, q = poly[k], poly[(k + 1) % n]
+        vp, vq = vals[k], vals[(k + 1) % n]
+        if vp <= 0:
+            res.append(p)
+        if (vp < 0 < vq) or (vq < 0 < vp):
+            t = vp / (vp - vq)
+            res.append(p + t * (q - p))
+    if len(res) < 3:
+        return None
+    return np.array(res)
