@@ -224,12 +224,15 @@ def lower_envelope(planes, window):
 
     # Snap to the box (Qhull rounding) and keep the upper-surface vertices.
     uv = np.clip(verts[:, :2], 0.0, 1.0)
+    uv[np.abs(uv) < 1e-11] = 0.0
+    uv[np.abs(uv - 1.0) < 1e-11] = 1.0
     vals = A[:, :1].T + np.outer(uv[:, 0], A[:, 1]) + np.outer(uv[:, 1], A[:, 2])  # (M, K)
     env = vals.min(axis=1)
     top = verts[:, 2] > z_floor + 0.25 * span
     uv, vals, env = uv[top], vals[top], env[top]
     tol = _PLANE_TOL * (1.0 + np.abs(env).max())
     member = vals <= env[:, None] + tol  # (M, K)
+    _drop_near_coincident(member, A, tol, active, coincident)
 
     for k, i in enumerate(active):
         pts = _unique_rows(uv[member[:, k]], _VERTEX_TOL)
@@ -242,6 +245,35 @@ def lower_envelope(planes, window):
 
     edges = _edges(uv, member, active, polygons, planes, (x0, dx, y0, dy))
     return Envelope(polygons, edges, coincident, (x0, x1, y0, y1))
+
+
+def _drop_near_coincident(member, A, tol, active, coincident):
+    """Planes within rounding of each other over the whole window: keep the lower one.
+
+    Two planes that both sit on the envelope at three or more vertices and
+    differ by less than the tolerance at all four window corners are the same
+    plane for this map (a linear function's extremes over the box are at its
+    corners); the one lower at the window centre keeps the face, the other is
+    recorded as coincident with it and loses its membership (in place).
+    """
+    cols = np.flatnonzero(member.sum(axis=0) >= 3)
+    if len(cols) < 2:
+        return
+    sub = member[:, cols].astype(np.int32)
+    shared = sub.T @ sub
+    corners = np.array([[1, 0, 0], [1, 1, 0], [1, 0, 1], [1, 1, 1]], dtype=float)
+    for a in range(len(cols)):
+        for b in range(a + 1, len(cols)):
+            if shared[a, b] < 3:
+                continue
+            ka, kb = cols[a], cols[b]
+            diff = corners @ (A[ka] - A[kb])
+            if np.max(np.abs(diff)) > tol:
+                continue
+            centre = diff.mean()
+            keep, drop = (ka, kb) if (centre < 0 or (centre == 0 and ka < kb)) else (kb, ka)
+            member[:, drop] = False
+            coincident[int(active[drop])] = int(active[keep])
 
 
 def _edges(uv, member, active, polygons, planes, frame):
