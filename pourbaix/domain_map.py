@@ -418,7 +418,7 @@ class DomainMap:
         for se in self.species:
             sp = se.species
             row = {
-                "name": sp.name,
+                "name": species_id(sp),
                 "phase": sp.phase,
                 "composition": dict(sp.composition),
                 "charge": sp.charge,
@@ -426,7 +426,7 @@ class DomainMap:
                 "dg_kj_mol": se.dg_kj_mol,
                 "activity": se.activity,
                 "source": sp.source,
-                "stable": any(sp.name in d.species for d in self.domains),
+                "stable": any(species_id(sp) in d.species for d in self.domains),
                 "route": se.route,
                 "origin": sp.origin,
             }
@@ -576,6 +576,47 @@ def _rings(poly):
 
 
 # ---------------------------------------------------------------------- build
+def species_id(sp):
+    """Name of a species on a map, unique across phases.
+
+    Neutral dissolved species carry "(aq)" so that, e.g., dissolved
+    Zn(OH)2(aq) and solid Zn(OH)2 are told apart; ions are aqueous by
+    definition and keep their bare name.
+
+    Parameters
+    ----------
+    sp : Species
+        Table row.
+
+    Returns
+    -------
+    str
+    """
+    if sp.phase == "aq" and sp.charge == 0:
+        return f"{sp.name}(aq)"
+    if sp.phase == "g":
+        return f"{sp.name}(g)"
+    return sp.name
+
+
+def species_label(sp):
+    """Mathtext label of a species, with "(aq)" for neutral dissolved species.
+
+    Parameters
+    ----------
+    sp : Species
+        Table row.
+
+    Returns
+    -------
+    str
+    """
+    label = sp.label
+    if sp.phase == "aq" and sp.charge == 0:
+        label = label[:-1] + r"_{\mathrm{(aq)}}$"
+    return label
+
+
 def _state_of(sp, element):
     comp = dict(sp.composition)
     if sp.phase == "aq" or sp.phase == "g":
@@ -889,7 +930,12 @@ def compute_map(
         se = energies.species_energy(sp, element, ctx, act, gam)
         energies_list.append(se)
         entries.append(
-            Entry(names=(sp.name,), plane=to_frame(se.plane, off0, off1), state=_state_of(sp, element), label=sp.label)
+            Entry(
+                names=(species_id(sp),),
+                plane=to_frame(se.plane, off0, off1),
+                state=_state_of(sp, element),
+                label=species_label(sp),
+            )
         )
     _route_warnings(energies_list, ctx.temperature_c, warn)
     water_she = energies.water_lines(ctx)
@@ -944,7 +990,6 @@ def dissolved_activity(sp, activity, molality, gamma_of):
 
 
 def _conditions_context(table, elements, temperature_c, pressure_bar, water_activity, ionic_strength, background, activity_model, warn):
-    from . import solution, thermo
     from .energies import make_context
 
     try:
@@ -955,6 +1000,8 @@ def _conditions_context(table, elements, temperature_c, pressure_bar, water_acti
         warnings.simplefilter("always")
         ctx = make_context(table, t, pressure_bar, water_activity, elements)
         ionic = 0.0
+        if background is not None or ionic_strength is not None:
+            from . import solution
         if background is not None and ionic_strength is not None:
             raise OptionError("give either an ionic strength or a background electrolyte, not both")
         if background is not None:
@@ -984,7 +1031,6 @@ def _conditions_context(table, elements, temperature_c, pressure_bar, water_acti
         msg = str(w.message)
         if msg not in warn:
             warn.append(msg)
-    _ = thermo
     return ctx, gamma_of, ionic, model
 
 

@@ -12,7 +12,9 @@ __all__ = ["boundary_equations"]
 
 
 def _species_by_name(dmap):
-    return {se.species.name: se for se in dmap.species}
+    from .domain_map import species_id
+
+    return {species_id(se.species): se for se in dmap.species}
 
 
 def boundary_equations(dmap):
@@ -61,7 +63,9 @@ def boundary_equations(dmap):
         if b.ph is not None:
             row["line"] = f"pH = {b.ph:.3f}"
         else:
-            row["line"] = f"E = {b.e_at_ph0_v:+.4f} {b.slope_v_per_ph:+.5f} pH  (V vs {ref})"
+            slope = b.slope_v_per_ph if abs(b.slope_v_per_ph) > 5e-9 else 0.0
+            sign = "-" if slope < 0 else "+"
+            row["line"] = f"E = {b.e_at_ph0_v:+.4f} {sign} {abs(slope):.5f} pH  (V vs {ref})"
         a_name, b_name = b.between
         if a_name in by_name and b_name in by_name and len(c.elements) == 1 and not c.ligands:
             sa, sb = by_name[a_name], by_name[b_name]
@@ -101,9 +105,9 @@ def _describe(rx, by_name, b, c, k):
     # log10 Q of the activities that sit in the line (not H+): products over reactants.
     log_q = 0.0
     for sp, nu in rx.reduced:
-        log_q += nu * math.log10(by_name[sp.name].activity)
+        log_q += nu * math.log10(by_name[_id(sp)].activity)
     for sp, nu in rx.oxidised:
-        log_q -= nu * math.log10(by_name[sp.name].activity)
+        log_q -= nu * math.log10(by_name[_id(sp)].activity)
     log_q += rx.water * math.log10(c.water_activity)
     out = {"reaction": rx.text(), "electrons": n, "h_plus": m}
     q_text = _q_text(rx)
@@ -113,8 +117,10 @@ def _describe(rx, by_name, b, c, k):
         e0 = e_line_she + (k / n) * log_q
         out["e0_v_she"] = float(e0)
         out["log_k"] = None
-        mpart = f" - {m / n * k:.5f} pH" if abs(m) > 1e-12 else ""
-        out["nernst"] = f"E = E0{mpart} - ({k / n:.5f}) log10({q_text})" if q_text else f"E = E0{mpart}"
+        coef = m / n * k
+        mpart = f" {'-' if coef > 0 else '+'} {abs(coef):.5f} pH" if abs(m) > 1e-12 else ""
+        qpart = f" {'-' if n > 0 else '+'} {abs(k / n):.5f} log10({q_text})" if q_text else ""
+        out["nernst"] = f"E = E0{mpart}{qpart}"
     else:
         # electron-free: pH = (log K - log Q)/m  with K = a_red a_w^w / (a_ox a_H+^m)
         out["e0_v_she"] = None
@@ -128,13 +134,19 @@ def _describe(rx, by_name, b, c, k):
     return out
 
 
+def _id(sp):
+    from .domain_map import species_id
+
+    return species_id(sp)
+
+
 def _q_text(rx):
-    top = " ".join(_pow(sp.name, nu) for sp, nu in rx.reduced if sp.phase in ("aq", "g"))
-    bot = " ".join(_pow(sp.name, nu) for sp, nu in rx.oxidised if sp.phase in ("aq", "g"))
+    top = " ".join(_pow(_id(sp), nu) for sp, nu in rx.reduced if sp.phase in ("aq", "g"))
+    bot = " ".join(_pow(_id(sp), nu) for sp, nu in rx.oxidised if sp.phase in ("aq", "g"))
     if not top and not bot:
         return ""
     return f"[{top or '1'}]/[{bot or '1'}]"
 
 
 def _pow(name, nu):
-    return name if nu == 1 else f"{name}^{nu:g}"
+    return name if nu == 1 else f"({name})^{nu:g}"
