@@ -1,0 +1,112 @@
+"""The command line: outputs, exit codes and one-line errors."""
+
+import json
+import subprocess
+import sys
+
+import pytest
+
+from pourbaix.cli import main
+
+
+def run(capsys, *args):
+    try:
+        code = main(list(args))
+    except SystemExit as exc:  # argparse usage errors
+        code = exc.code
+    out, err = capsys.readouterr()
+    return code, out, err
+
+
+def test_map_writes_figure_json_and_csv(tmp_path, capsys):
+    png, js, csv = tmp_path / "fe.png", tmp_path / "fe.json", tmp_path / "fe.csv"
+    code, out, err = run(capsys, "map", "Fe", "--out", str(png), "--out", str(js), "--out", str(csv))
+    assert code == 0, err
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    doc = json.loads(js.read_text())
+    assert doc["format"] == "pourbaix.map" and doc["version"] == 1
+    assert csv.read_text().startswith("species_1,species_2")
+    assert "domains:" in out
+
+
+def test_probe_answers_species_state_and_margins(capsys):
+    code, out, err = run(capsys, "probe", "Fe", "--ph", "7", "--potential", "-0.6", "--reference", "SCE")
+    assert code == 0, err
+    assert "Fe^2+" in out and "corrosion" in out and "mV" in out
+
+
+def test_probe_json(capsys):
+    code, out, _ = run(capsys, "probe", "Cu", "--ph", "2", "--potential", "0.0", "--json")
+    assert code == 0
+    row = json.loads(out)
+    assert row["species"] == "Cu" and row["state"] == "immunity"
+    assert row["reference"] == "SHE"
+
+
+def test_lines_prints_reactions_and_equations(capsys):
+    code, out, _ = run(capsys, "lines", "Cu")
+    assert code == 0
+    assert "Cu^2+ + 2 e- = Cu" in out
+    assert "E0 = +0.3394 V vs SHE" in out or "E0 = +0.34" in out
+    assert "water: O2/H2O" in out
+
+
+def test_species_lists_iron_with_sources(capsys):
+    code, out, _ = run(capsys, "species", "Fe", "--json")
+    assert code == 0
+    rows = json.loads(out)
+    assert len(rows) >= 12
+    for r in rows:
+        assert {"name", "phase", "composition", "charge", "dgf_kj_mol", "source", "note"} <= set(r)
+
+
+def test_references_and_datasets_list(capsys):
+    code, out, _ = run(capsys, "references")
+    assert code == 0 and "SCE" in out and "Cu/CuSO4" in out and "RHE" in out
+    code, out, _ = run(capsys, "datasets")
+    assert code == 0 and "default" in out and "bpj85" in out
+
+
+@pytest.mark.parametrize(
+    "args, match",
+    [
+        (["probe", "Xx", "--ph", "7", "--potential", "0"], "unknown element 'Xx'"),
+        (["map", "Fe", "--ph", "9", "3", "--out", "x.json"], "pH range"),
+        (["probe", "Fe", "--ph", "7", "--potential", "0", "--reference", "calomelish"], "unknown reference"),
+        (["map", "Fe", "--out", "fe.xyz"], "unknown file type"),
+        (["map", "Fe", "--activity", "-3", "--out", "a.json"], "positive"),
+        (["probe", "Fe", "--ph", "seven", "--potential", "0"], "not a number"),
+    ],
+)
+def test_bad_input_exits_2_with_one_line(capsys, tmp_path, monkeypatch, args, match):
+    monkeypatch.chdir(tmp_path)
+    code, out, err = run(capsys, *args)
+    assert code == 2
+    assert match in err
+    assert "Traceback" not in err
+    assert list(tmp_path.iterdir()) == []  # nothing written
+
+
+def test_unwritable_output_leaves_nothing(tmp_path, capsys):
+    target = tmp_path / "missing-folder" / "fe.json"
+    code, _, err = run(capsys, "map", "Fe", "--out", str(target))
+    assert code == 2 and "does not exist" in err
+    assert not target.exists()
+
+
+def test_help_has_an_example_and_the_caution():
+    for cmd in ("map", "probe", "lines"):
+        res = subprocess.run([sys.executable, "-m", "pourbaix.cli", cmd, "--help"], capture_output=True, text=True, check=False)
+        assert res.returncode == 0
+        assert "example:" in res.stdout
+        assert "licensed practice" in res.stdout
+
+
+def test_light_commands_do_not_import_matplotlib():
+    code = (
+        "import sys; from pourbaix.cli import main; "
+        "main(['probe','Fe','--ph','7','--potential','-0.6']); main(['lines','Fe']); main(['species','Fe']); "
+        "assert 'matplotlib' not in sys.modules, 'matplotlib imported'"
+    )
+    res = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=False)
+    assert res.returncode == 0, res.stderr
