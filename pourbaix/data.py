@@ -174,6 +174,19 @@ class Species:
         return f"{self.name}({self.phase})"
 
 
+def _water_difference(sp: Species, f: Formula) -> int:
+    """Return k where sp = f + k H2O (same charge, other elements equal), else 0."""
+    if sp.charge != f.charge:
+        return 0
+    a, b = dict(sp.composition), dict(f.composition)
+    if {e for e in a if e not in "HO"} != {e for e in b if e not in "HO"}:
+        return 0
+    if any(a[e] != b[e] for e in a if e not in ("H", "O")):
+        return 0
+    k = a.get("O", 0) - b.get("O", 0)
+    return k if k != 0 and a.get("H", 0) - b.get("H", 0) == 2 * k else 0
+
+
 def _display(key: tuple[str, str]) -> str:
     return f"{key[0]}({key[1]})"
 
@@ -276,19 +289,29 @@ class SpeciesTable:
         )
 
     def _suggest(self, name: str) -> str:
-        labels = [str(s) for s in self.species]
-        close = difflib.get_close_matches(name, labels, n=5, cutoff=0.5)
-        close += difflib.get_close_matches(name, [s.name for s in self.species], n=5, cutoff=0.6)
+        by_label = {str(s): s for s in self.species}
+        by_name: dict[str, Species] = {}
+        for s in self.species:
+            by_name.setdefault(s.name, s)
+        close = [by_label[c] for c in difflib.get_close_matches(name, list(by_label), 5, 0.5)]
+        close += [by_name[c] for c in difflib.get_close_matches(name, list(by_name), 5, 0.6)]
+        hydrates: list[str] = []
         try:
-            f = parse_formula(name.partition(":")[0])
-            close += [str(s) for s in self.species if set(s.composition) == set(f.composition)]
+            f = _readings(name.partition(":")[0])[0]
         except FormulaError:
-            pass
-        uniq = []
-        for c in close:
-            c = c if "(" in c[-4:] else str(next(s for s in self.species if s.name == c))
-            if c not in uniq:
-                uniq.append(c)
+            f = None
+        if f is not None:
+            close += [s for s in self.species if set(s.composition) == set(f.composition)]
+            for s in self.species:  # the same species written with more or less water
+                k = _water_difference(s, f)
+                if k:
+                    sign = "+" if k > 0 else "-"
+                    water = "H2O" if abs(k) == 1 else f"{abs(k)} H2O"
+                    hydrates.append(f"{s} (= {f.text} {sign} {water})")
+        uniq: list[str] = hydrates[:]
+        for sp in close:
+            if str(sp) not in uniq and not any(h.startswith(f"{sp} ") for h in hydrates):
+                uniq.append(str(sp))
         if not uniq:
             return "; no close match"
         return "; close matches: " + ", ".join(uniq[:8])

@@ -3,6 +3,8 @@
 Builds a wheel from a copy of the source tree, installs it with --no-deps into a
 fresh virtual environment (which sees the system site-packages for numpy & co.),
 then imports pourbaix from another working directory and loads the tables.
+Without setuptools >= 68 and wheel in this interpreter, pip builds in an
+isolated environment, which downloads them from the package index.
 """
 
 from __future__ import annotations
