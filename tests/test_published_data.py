@@ -296,7 +296,10 @@ def our_e0(table, couple) -> tuple[float, list[str], str]:
     else:
         e0 = standard_potential(r, table)
     notes = [s.note for s in (ox, red, *extra)]
-    return e0, notes, r.text()
+    text = r.text() + (
+        f" + {r.h_plus:g} (H2O = H+ + OH-), i.e. the OH- form" if couple.alkaline else ""
+    )
+    return e0, notes, text
 
 
 def test_enough_couples():
