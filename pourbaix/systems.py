@@ -1113,23 +1113,27 @@ def compute_system_map(
         )
         for se in metal_rows
     ]
+    ids = [species_id(se.species) for se in metal_rows]
+    labels = [species_label(se.species) for se in metal_rows]
+    states = [
+        {m: _state_of(se.species, m) for m in elements if m in se.species.composition}
+        for se in metal_rows
+    ]
     units, base, nu_units = [], [], []
     for idx, amounts in combos:
-        order = sorted(range(len(idx)), key=lambda j: (order_key[idx[j]], idx[j]))
-        sps = [metal_rows[idx[j]].species for j in order]
+        order = sorted(idx, key=lambda i: (order_key[i], i))
         plane = amounts @ phis[list(idx)]  # Σ n_s Φ_s per mole of metal (DESIGN §2.5)
         nu = amounts @ nus[list(idx)]
         metal_states = {
-            m: _combined_state([_state_of(s, m) for s in sps if m in s.composition])
-            for m in elements
+            m: _combined_state([states[i][m] for i in order if m in states[i]]) for m in elements
         }
         plane_ref = to_frame(tuple(float(v) for v in plane), off0, off1)
         units.append(
             Entry(
-                names=tuple(species_id(s) for s in sps),
+                names=tuple(ids[i] for i in order),
                 plane=plane_ref,
                 state=metal_states[elements[0]],
-                label=" + ".join(species_label(s) for s in sps),
+                label=" + ".join(labels[i] for i in order),
                 metal_states=metal_states,
             )
         )
