@@ -591,8 +591,9 @@ def _label_line(
 ):
     """Label a straight line E = e0 + slope pH along it, at the first free spot.
 
-    Spots are tried from the right end leftwards; one whose box crosses no
-    boundary is preferred, then any spot clear of the other labels.
+    Spots are tried from the right end leftwards, on the preferred side of
+    the line and then on the other; one whose box crosses no boundary is
+    preferred, then any spot clear of the other labels.
     """
     x0, x1 = ax.get_xlim()
     y0, y1 = ax.get_ylim()
@@ -609,7 +610,8 @@ def _label_line(
     )
     tr = ax.transData
     fallback = None
-    for f in np.linspace(0.9, 0.06, 36):
+    spots = [(f, side) for side in (above, not above) for f in np.linspace(0.9, 0.06, 36)]
+    for f, side in spots:
         ph = x0 + f * (x1 - x0)
         e = e0 + slope * ph
         if not (y0 < e < y1):
@@ -621,7 +623,7 @@ def _label_line(
         # centre the text a little above (or below) the line, measured across the line
         hh = 0.66 * size * placer.px_per_pt
         nx, ny = -math.sin(math.radians(ang)), math.cos(math.radians(ang))
-        sgn = 1.0 if above else -1.0
+        sgn = 1.0 if side else -1.0
         c = (p[0] + sgn * nx * hh, p[1] + sgn * ny * hh)
         t.set_position(placer.to_data(c))
         ext = t.get_window_extent(placer.renderer)
@@ -1224,10 +1226,14 @@ def draw_overlay(maps, ax=None, *, labels=None, caption=True):
     from matplotlib.lines import Line2D
 
     handles = []
+    one_water = _same_water(maps)
+    if one_water:
+        _draw_water(ax, first, colour="#4d4d4d", lw=0.9, ls=(0, (1.2, 2.2)))
     for k, m in enumerate(maps):
         colour, ls, lw = _OVERLAY_STYLES[k]
         _draw_boundaries(ax, m, colour=colour, lw=lw, ls=ls, zorder=3.0 + 0.1 * (len(maps) - k))
-        _draw_water(ax, m, colour=colour, lw=0.8, ls=(0, (2, 2.5)), zorder=2.4)
+        if not one_water:
+            _draw_water(ax, m, colour=colour, lw=0.8, ls=(0, (2, 2.5)), zorder=2.4)
         handles.append(Line2D([], [], color=colour, ls=ls, lw=lw))
     ax.set_title(_system_text(c), loc="left", fontsize=12.5, fontweight="bold", color=_INK, pad=8)
     ax.set_title(
@@ -1247,8 +1253,35 @@ def draw_overlay(maps, ax=None, *, labels=None, caption=True):
     placer, pending, polys_px, poles_px = _label_domains(
         ax, first, renderer, colours, light=True, soft_lines=soft
     )
+    if one_water:
+        placer.add_lines([(b.start, b.end) for m in maps for b in m.boundaries])
+        texts = {"oxygen": r"$\mathrm{O_2/H_2O}$", "hydrogen": r"$\mathrm{H_2O/H_2}$"}
+        for key, above in (("oxygen", True), ("hydrogen", False)):
+            if key in first.water:
+                e0, sl = first.water[key]
+                _label_line(
+                    ax,
+                    placer,
+                    texts[key],
+                    e0,
+                    sl,
+                    colour="#3a3a3a",
+                    size=7.5,
+                    above=above,
+                    gid=f"pourbaix-label:water:{key}",
+                )
     _label_pending(ax, first, placer, pending, polys_px, poles_px, light=True)
     return ax
+
+
+def _same_water(maps):
+    """Tell whether every map has the same water lines (within 0.1 mV)."""
+    ref = maps[0].water
+    return all(
+        set(m.water) == set(ref)
+        and all(abs(a - b) < 1e-4 for k in ref for a, b in zip(m.water[k], ref[k], strict=True))
+        for m in maps[1:]
+    )
 
 
 def _shared_caption(maps, labels):
@@ -1267,10 +1300,11 @@ def _shared_caption(maps, labels):
     if same(lambda x: (x.activity, x.molality)):
         shared.append(_activity_text(c))
     if same(lambda x: x.ionic_strength):
-        shared.append(
-            f"I = {c.ionic_strength:g} mol/kg"
-            + (f", {c.activity_model} model" if c.ionic_strength and c.activity_model else "")
-        )
+        if c.ionic_strength:
+            model = f", {c.activity_model} model" if c.activity_model else ""
+            shared.append(f"I = {c.ionic_strength:g} mol/kg{model}")
+        else:
+            shared.append("I = 0")
     if same(lambda x: (x.dataset, tuple(x.data_files))):
         shared.append(f"data set: {c.dataset}")
     shared.append(f"potentials vs {c.reference}")
@@ -1279,7 +1313,9 @@ def _shared_caption(maps, labels):
         shared,
         [
             f"Shading and labels: {labels[0]}.",
-            "Dotted lines in each map's colour: the water lines at that map's conditions.",
+            "Grey dotted: the water lines, the same for every map."
+            if _same_water(maps)
+            else "Dotted lines in each map's colour: the water lines at that map's conditions.",
         ],
     ]
     if n_warn:

@@ -552,3 +552,16 @@ def test_map_without_temperature_data_draws_without_neutral_marker(monkeypatch):
     ax = draw.draw_map(m)
     assert not [ln for ln in ax.lines if ln.get_gid() == "pourbaix-neutral"]
     assert len(label_texts(ax, "domain")) == len(m.domains)
+
+
+def test_overlay_water_lines_once_when_shared_and_per_map_when_not(maps):
+    two_sets = [maps["Fe"], pourbaix.compute_map("Fe", dataset="bpj85")]
+    ax = draw.draw_overlay(two_sets)
+    water = [ln for ln in ax.lines if str(ln.get_gid()).startswith("pourbaix-water")]
+    assert len(water) == 2  # same temperature: one pair of water lines, labelled
+    assert len(label_texts(ax, "water")) == 2
+    assert_no_overlaps(ax)
+    sweep = pourbaix.compute_sweep("Fe", temperatures_c=[25, 150])
+    ax2 = draw.draw_overlay(sweep)
+    water2 = [ln for ln in ax2.lines if str(ln.get_gid()).startswith("pourbaix-water")]
+    assert len(water2) == 4  # the water lines move with temperature: one pair per map
