@@ -216,7 +216,8 @@ def cmd_lines(a):
     print(f"Boundaries of {'-'.join(c.elements)} at {c.temperature_c:g} °C, potentials vs {ref}; k = {rows[0]['nernst_v'] if rows else 0:.5f} V")
     for i, r in enumerate(rows, 1):
         print(f"\n{i:2d}. {r['between'][0]}  |  {r['between'][1]}")
-        print(f"    {r['reaction']}")
+        if r.get("reaction"):
+            print(f"    {r['reaction']}")
         if r.get("e0_v_she") is not None:
             print(f"    E0 = {r['e0_v_she']:+.4f} V vs SHE;  {r['nernst']}")
         elif r.get("log_k") is not None:

@@ -652,7 +652,7 @@ def build_map(conditions, entries, species_energies, water_she, warnings_list, s
     -------
     DomainMap
     """
-    from shapely.geometry import Polygon
+    from shapely.geometry import Point, Polygon
     from shapely.ops import polylabel
 
     planes = np.array([e.plane for e in entries], dtype=float)
@@ -663,7 +663,12 @@ def build_map(conditions, entries, species_energies, water_she, warnings_list, s
         if poly is None:
             continue
         P = Polygon(poly)
-        lp = polylabel(P, tolerance=1e-3 * math.sqrt(max(P.area, 1e-12)))
+        # interior pole found in window-normalised units, so pH and volts weigh alike
+        sx = window[1] - window[0]
+        sy = window[3] - window[2]
+        Pn = Polygon(np.column_stack([(poly[:, 0] - window[0]) / sx, (poly[:, 1] - window[2]) / sy]))
+        lpn = polylabel(Pn, tolerance=1e-4)
+        lp = Point(window[0] + lpn.x * sx, window[2] + lpn.y * sy)
         e = entries[i]
         domains.append(Domain(e.names, e.state, P, e.label, (float(lp.x), float(lp.y)), i))
     boundaries = []

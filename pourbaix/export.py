@@ -52,6 +52,10 @@ def atomic_write_with(path, writer):
     os.close(fd)
     try:
         writer(tmp)
+        # mkstemp creates 0600; give the file the permissions a plain open() would (umask)
+        umask = os.umask(0)
+        os.umask(umask)
+        os.chmod(tmp, 0o666 & ~umask)
         os.replace(tmp, p)
     except BaseException as exc:
         try:

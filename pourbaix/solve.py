@@ -18,8 +18,6 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy.spatial import HalfspaceIntersection, QhullError
-
 from .errors import ConditionsError
 
 __all__ = ["Envelope", "Edge", "lower_envelope", "clip_domains"]
@@ -31,6 +29,9 @@ _PLANE_TOL = 1e-9
 # Domains smaller than this fraction of the window area are touching points
 # or slivers produced by rounding, not stability fields.
 _AREA_TOL = 1e-12
+# Up to this many distinct planes the vertices come from direct clipping,
+# above it from Qhull's half-space intersection (O(N log N)).
+_SMALL_N = 32
 
 
 @dataclass(frozen=True)
@@ -133,13 +134,21 @@ def _polygon_area(poly):
 
 
 def _unique_rows(points, tol):
-    if len(points) == 0:
+    if len(points) < 2:
         return points
-    keep = [points[0]]
-    for p in points[1:]:
-        if all(np.max(np.abs(p - q)) > tol for q in keep):
-            keep.append(p)
-    return np.array(keep)
+    # sort by u then v; a point within tol of an earlier kept point is the same vertex
+    order = np.lexsort((points[:, 1], points[:, 0]))
+    pts = points[order]
+    keep = np.ones(len(pts), dtype=bool)
+    for a in range(len(pts)):
+        if not keep[a]:
+            continue
+        b = a + 1
+        while b < len(pts) and pts[b, 0] - pts[a, 0] <= tol:
+            if keep[b] and abs(pts[b, 1] - pts[a, 1]) <= tol:
+                keep[b] = False
+            b += 1
+    return pts[keep]
 
 
 def lower_envelope(planes, window):
@@ -203,39 +212,23 @@ def lower_envelope(planes, window):
         return Envelope(polygons, [], coincident, (x0, x1, y0, y1))
 
     A = norm[active]
-    corners = np.array([[0, 0], [1, 0], [1, 1], [0, 1]], dtype=float)
-    corner_vals = A[:, :1] + A[:, 1:2] * corners[:, 0] + A[:, 2:3] * corners[:, 1]
-    span = float(np.ptp(corner_vals)) + 1.0
-    z_floor = float(corner_vals.min()) - span
-    hs = np.empty((len(active) + 5, 4))
-    hs[: len(active)] = np.column_stack([-A[:, 1], -A[:, 2], np.ones(len(active)), -A[:, 0]])
-    hs[len(active) :] = [
-        [-1.0, 0.0, 0.0, 0.0],  # u >= 0
-        [1.0, 0.0, 0.0, -1.0],  # u <= 1
-        [0.0, -1.0, 0.0, 0.0],  # v >= 0
-        [0.0, 1.0, 0.0, -1.0],  # v <= 1
-        [0.0, 0.0, -1.0, z_floor],  # z >= z_floor
-    ]
-    interior = np.array([0.5, 0.5, z_floor + 0.5 * span])
-    try:
-        verts = HalfspaceIntersection(hs, interior).intersections
-    except QhullError as exc:  # pragma: no cover - box + floor keeps it full-dimensional
-        raise ConditionsError(f"exact solve failed in Qhull: {exc}") from exc
-
-    # Snap to the box (Qhull rounding) and keep the upper-surface vertices.
-    uv = np.clip(verts[:, :2], 0.0, 1.0)
+    if len(active) <= _SMALL_N:
+        uv = _vertices_by_enumeration(A)
+    else:
+        uv = _vertices_by_qhull(A)
+    # Snap to the box (rounding), merge repeated vertices, evaluate every plane at every vertex.
+    uv = np.clip(uv, 0.0, 1.0)
     uv[np.abs(uv) < 1e-11] = 0.0
     uv[np.abs(uv - 1.0) < 1e-11] = 1.0
+    uv = _unique_rows(uv, _VERTEX_TOL)
     vals = A[:, :1].T + np.outer(uv[:, 0], A[:, 1]) + np.outer(uv[:, 1], A[:, 2])  # (M, K)
     env = vals.min(axis=1)
-    top = verts[:, 2] > z_floor + 0.25 * span
-    uv, vals, env = uv[top], vals[top], env[top]
     tol = _PLANE_TOL * (1.0 + np.abs(env).max())
     member = vals <= env[:, None] + tol  # (M, K)
     _drop_near_coincident(member, A, tol, active, coincident)
 
     for k, i in enumerate(active):
-        pts = _unique_rows(uv[member[:, k]], _VERTEX_TOL)
+        pts = uv[member[:, k]]
         if len(pts) < 3:
             continue
         poly = _order_ccw(pts)
@@ -276,6 +269,111 @@ def _drop_near_coincident(member, A, tol, active, coincident):
             coincident[int(active[drop])] = int(active[keep])
 
 
+def _vertices_by_qhull(A):
+    """Upper-surface vertices of {z <= psi_i} ∩ box, in normalised (u, v)."""
+    from scipy.spatial import HalfspaceIntersection, QhullError  # imported only for large systems
+
+    corners = np.array([[0, 0], [1, 0], [1, 1], [0, 1]], dtype=float)
+    corner_vals = A[:, :1] + A[:, 1:2] * corners[:, 0] + A[:, 2:3] * corners[:, 1]
+    span = float(np.ptp(corner_vals)) + 1.0
+    z_floor = float(corner_vals.min()) - span
+    n = len(A)
+    hs = np.empty((n + 5, 4))
+    hs[:n] = np.column_stack([-A[:, 1], -A[:, 2], np.ones(n), -A[:, 0]])
+    hs[n:] = [
+        [-1.0, 0.0, 0.0, 0.0],  # u >= 0
+        [1.0, 0.0, 0.0, -1.0],  # u <= 1
+        [0.0, -1.0, 0.0, 0.0],  # v >= 0
+        [0.0, 1.0, 0.0, -1.0],  # v <= 1
+        [0.0, 0.0, -1.0, z_floor],  # z >= z_floor
+    ]
+    interior = np.array([0.5, 0.5, z_floor + 0.5 * span])
+    try:
+        verts = HalfspaceIntersection(hs, interior).intersections
+    except QhullError as exc:  # pragma: no cover - box + floor keeps it full-dimensional
+        raise ConditionsError(f"exact solve failed in Qhull: {exc}") from exc
+    top = verts[:, 2] > z_floor + 0.25 * span
+    return verts[top, :2]
+
+
+def _vertices_by_enumeration(A):
+    """Envelope vertices of a few planes by enumerating every candidate point.
+
+    Every vertex of the lower envelope over the box is a point where three
+    planes are equal, where two planes are equal on a side of the box, or a
+    corner. All candidates are solved at once (2x2 systems, Cramer's rule)
+    and those where a defining plane is on the envelope are kept. O(N^3) but
+    vectorised, it beats the 3-D hull for a few dozen planes and needs no
+    scipy.spatial import.
+    """
+    n = len(A)
+    cands = [np.array([[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]])]
+    owner = [np.zeros(4, dtype=int)]
+    ii, jj = np.triu_indices(n, 1)
+    d = A[ii] - A[jj]  # lines d0 + du u + dv v = 0
+    for fixed, val in ((0, 0.0), (0, 1.0), (1, 0.0), (1, 1.0)):
+        other = 2 if fixed == 0 else 1
+        coef = d[:, other]
+        ok = np.abs(coef) > 1e-15
+        t = -(d[ok, 0] + d[ok, 1 + fixed] * val) / coef[ok]
+        pts = np.empty((ok.sum(), 2))
+        pts[:, fixed] = val
+        pts[:, 1 - fixed] = t
+        cands.append(pts)
+        owner.append(ii[ok])
+    if n >= 3:
+        tri = np.array(list(_combinations3(n)))
+        i, j, k = tri[:, 0], tri[:, 1], tri[:, 2]
+        a1, a2 = A[i] - A[j], A[i] - A[k]
+        det = a1[:, 1] * a2[:, 2] - a1[:, 2] * a2[:, 1]
+        ok = np.abs(det) > 1e-15
+        u = (-a1[ok, 0] * a2[ok, 2] + a2[ok, 0] * a1[ok, 2]) / det[ok]
+        v = (-a1[ok, 1] * a2[ok, 0] + a2[ok, 1] * a1[ok, 0]) / det[ok]
+        cands.append(np.column_stack([u, v]))
+        owner.append(i[ok])
+    pts = np.concatenate(cands)
+    own = np.concatenate(owner)
+    inside = np.all((pts >= -1e-12) & (pts <= 1 + 1e-12), axis=1)
+    pts, own = pts[inside], own[inside]
+    vals = A[:, 0][None, :] + np.outer(pts[:, 0], A[:, 1]) + np.outer(pts[:, 1], A[:, 2])
+    env = vals.min(axis=1)
+    on = vals[np.arange(len(pts)), own] <= env + _PLANE_TOL * (1.0 + np.abs(env).max())
+    corner = np.zeros(len(pts), dtype=bool)
+    corner[:4] = inside[:4]
+    return pts[on | corner]
+
+
+def _combinations3(n):
+    for i in range(n):
+        for j in range(i + 1, n):
+            for k in range(j + 1, n):
+                yield (i, j, k)
+
+
+def _vertices_by_clipping(A):
+    """All vertices of the domains, by clipping the unit box with N-1 half planes each.
+
+    For a handful of planes this beats building the 3-D hull and needs no
+    scipy.spatial import; the vertices feed the same membership step as the
+    Qhull route, so both routes give identical domains.
+    """
+    box = np.array([[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]])
+    centre = A[:, 0] + 0.5 * A[:, 1] + 0.5 * A[:, 2]
+    order = np.argsort(centre)  # most competitive planes first: empty domains die early
+    out = [box]
+    for i in range(len(A)):
+        poly = box
+        for j in order:
+            if j == i:
+                continue
+            poly = _clip(poly, A[i] - A[j])
+            if poly is None:
+                break
+        if poly is not None:
+            out.append(poly)
+    return np.concatenate(out)
+
+
 def _edges(uv, member, active, polygons, planes, frame):
     x0, dx, y0, dy = frame
     stable_cols = [k for k, i in enumerate(active) if polygons[int(i)] is not None]
@@ -288,9 +386,7 @@ def _edges(uv, member, active, polygons, planes, frame):
             both = sub[:, a] & sub[:, b]
             if both.sum() < 2:
                 continue
-            pts = _unique_rows(uv[both], _VERTEX_TOL)
-            if len(pts) < 2:
-                continue
+            pts = uv[both]
             i, j = int(active[stable_cols[a]]), int(active[stable_cols[b]])
             xy = np.column_stack([x0 + dx * pts[:, 0], y0 + dy * pts[:, 1]])
             # order the points along the segment and keep the two extremes

@@ -209,3 +209,23 @@ def test_bad_windows_are_refused(window, match):
 def test_non_finite_plane_is_refused():
     with pytest.raises(ConditionsError, match="plane 1 has a non-finite"):
         lower_envelope([[0, 0, 0], [np.nan, 0, 0]], WINDOW)
+
+
+@settings(max_examples=100, deadline=None)
+@given(plane_sets(max_n=20))
+def test_enumeration_and_qhull_vertex_routes_agree(planes):
+    """The small-N route (candidate enumeration) and the large-N route (Qhull) give one answer."""
+    import pourbaix.solve as solve_module
+
+    small = lower_envelope(planes, WINDOW)
+    saved = solve_module._SMALL_N
+    solve_module._SMALL_N = 0
+    try:
+        big = lower_envelope(planes, WINDOW)
+    finally:
+        solve_module._SMALL_N = saved
+    for a, b in zip(small.polygons, big.polygons, strict=True):
+        assert (a is None) == (b is None)
+        if a is not None:
+            assert Polygon(a).symmetric_difference(Polygon(b)).area < 1e-9
+    assert sorted(e.pair for e in small.edges) == sorted(e.pair for e in big.edges)
