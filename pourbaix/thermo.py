@@ -765,8 +765,24 @@ def water_properties(temperature_c, pressure_bar=None):
     t = check_temperature(temperature_c)
     if not isinstance(t, float):
         raise ConditionsError("water_properties takes one temperature at a time")
+    if t == T_REF_C and (pressure_bar is None or (isinstance(pressure_bar, int | float) and pressure_bar == P_REF_BAR)):
+        # the reference state, kept so a 25 °C map needs no IAPWS-95 solve (or its import);
+        # tests/test_thermo.py checks it equals the computed state
+        return _WATER_AT_25C
     p_mpa = _resolve_pressure(t, pressure_bar)
     return _water_properties_cached(t, p_mpa)
+
+
+# IAPWS-95 / R8-97 / R11-07 at 25 °C and 1 bar, as computed by _water_properties_cached
+_WATER_AT_25C = WaterProperties(
+    density_kg_m3=997.0470390177032,
+    dielectric_constant=78.40843280657934,
+    pressure_bar=1.0,
+    pkw=13.994506659353707,
+    gibbs_kj_mol=-237.129,
+    temperature_c=25.0,
+    at_saturation=False,
+)
 
 
 @functools.lru_cache(maxsize=1024)

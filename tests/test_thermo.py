@@ -459,3 +459,11 @@ def test_import_does_not_pull_matplotlib_or_iapws():
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.split() == ["False", "False"]
+
+
+def test_reference_state_shortcut_equals_the_computed_state():
+    # the 25 °C / 1 bar shortcut must be exactly what IAPWS-95, R8-97 and R11-07 give
+    from pourbaix import thermo
+
+    assert thermo.water_properties(25.0) == thermo._water_properties_cached(25.0, 0.1)
+    assert thermo.water_properties(25.0, 1.0) == thermo._water_properties_cached(25.0, 0.1)
