@@ -1023,7 +1023,10 @@ def _conditions_context(table, elements, temperature_c, pressure_bar, water_acti
             solution.log_gamma(1, ionic, t, model=model)  # validates model and range (raises or warns)
 
             def gamma_of(z, _i=ionic, _m=model):
-                return float(10 ** solution.log_gamma(z, _i, t, model=_m))
+                # the model's range warning was recorded once above; not repeated per species
+                with warnings.catch_warnings():
+                    warnings.simplefilter("ignore", category=Warning)
+                    return float(10 ** solution.log_gamma(z, _i, t, model=_m))
 
             lo, hi, text = solution.model_validity(model)
             warn.append(f"activity coefficients: {model} model at I = {ionic:g} mol/kg ({text})")
