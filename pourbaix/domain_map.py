@@ -667,7 +667,7 @@ def build_map(conditions, entries, species_energies, water_she, warnings_list, s
         sx = window[1] - window[0]
         sy = window[3] - window[2]
         Pn = Polygon(np.column_stack([(poly[:, 0] - window[0]) / sx, (poly[:, 1] - window[2]) / sy]))
-        lpn = polylabel(Pn, tolerance=1e-4)
+        lpn = polylabel(Pn, tolerance=2e-3)
         lp = Point(window[0] + lpn.x * sx, window[2] + lpn.y * sy)
         e = entries[i]
         domains.append(Domain(e.names, e.state, P, e.label, (float(lp.x), float(lp.y)), i))
@@ -901,7 +901,7 @@ def compute_map(
         return systems.compute_system_map(**locals())
 
     element = elements[0]
-    from .energies import make_context, reference_species
+    from .energies import reference_species
 
     reference_species(table, element)  # raises if the element has no data
     ctx, gamma_of, ionic, model = _conditions_context(

@@ -18,6 +18,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
+
 from .errors import ConditionsError
 
 __all__ = ["Envelope", "Edge", "lower_envelope", "clip_domains"]

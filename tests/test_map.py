@@ -132,10 +132,10 @@ def test_zinc_is_amphoteric():
     species set the Atlas used (no neutral complex).
     """
     for m in (compute_map("Zn", activity=1e-5), compute_map("Zn", activity=1e-6, exclude=["Zn(OH)2(aq)"])):
-        at = lambda ph: m.probe(ph, -0.5)  # noqa: E731 - above Zn/Zn2+ at every pH here
-        assert at(4.0).state == "corrosion"
-        assert at(9.5).state == "passivation"
-        assert at(14.5).state == "corrosion"
+        # -0.5 V vs SHE lies above Zn/Zn2+ at every pH here
+        assert m.probe(4.0, -0.5).state == "corrosion"
+        assert m.probe(9.5, -0.5).state == "passivation"
+        assert m.probe(14.5, -0.5).state == "corrosion"
     b = _boundary(compute_map("Zn", activity=1e-6), "Zn", "Zn^2+")
     # Zn2+/Zn -0.7618 V (CRC electrochemical series); at 1e-6 minus 0.1775 V
     assert b.e_at_ph0_v == pytest.approx(-0.7618 + K25 / 2 * math.log10(1e-6), abs=0.002)
