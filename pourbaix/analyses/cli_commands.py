@@ -1,0 +1,668 @@
+"""Command-line commands for the analyses: solubility, window, field, reading, compare."""
+
+from __future__ import annotations
+
+import argparse
+import csv
+import io
+import json
+import math
+import sys
+from pathlib import Path
+
+from ..errors import DataFileError, OptionError
+
+__all__ = ["register"]
+
+_FIGURES = (".png", ".svg", ".pdf")
+_SAFETY = (
+    "Safety: a map is a thermodynamic prediction (equilibrium only); it says nothing about rates, film "
+    "quality, pitting, crevices or microbiology. Cathodic-protection criteria, drinking-water decisions and "
+    "leach chemistries (cyanide, strong acids, sulfide/H2S) are for local codes, the applicable standards and "
+    "licensed practice to decide."
+)
+
+
+# ------------------------------------------------------------------ argument types
+def _number(text):
+    try:
+        v = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"not a number: {text!r}") from None
+    if not math.isfinite(v):
+        raise argparse.ArgumentTypeError(f"must be finite, got {text!r}")
+    return v
+
+
+def _positive(text):
+    v = _number(text)
+    if v <= 0:
+        raise argparse.ArgumentTypeError(f"must be a positive number, got {text!r}")
+    return v
+
+
+def _outputs(paths, allowed, option="--out"):
+    from ..export import check_writable
+
+    outs = [Path(p) for p in paths or ()]
+    for o in outs:
+        if o.suffix.lower() not in allowed:
+            raise OptionError(
+                f"{option} {o}: unknown file type {o.suffix or '(none)'}; use one of {', '.join(allowed)}"
+            )
+        check_writable(o)
+    return outs
+
+
+def _one_element(a, command):
+    if len(a.element) != 1:
+        raise OptionError(f"{command}: give one element, got {' '.join(a.element)}")
+    return a.element[0]
+
+
+def _notes(dmap):
+    for w in dmap.warnings:
+        print(f"pourbaix: note: {w}", file=sys.stderr)
+
+
+def _write_text(path, text):
+    from ..export import atomic_write_text
+
+    atomic_write_text(path, text)
+    print(f"wrote {path}")
+
+
+def _csv_text(rows):
+    if not rows:
+        return ""
+    buf = io.StringIO()
+    keys = list(rows[0])
+    for r in rows[1:]:
+        keys += [k for k in r if k not in keys]
+    w = csv.DictWriter(buf, fieldnames=keys, lineterminator="\n")
+    w.writeheader()
+    for r in rows:
+        w.writerow(
+            {
+                k: (
+                    ""
+                    if r.get(k) is None
+                    else (" | ".join(r[k]) if isinstance(r.get(k), list | tuple) else r[k])
+                )
+                for k in keys
+            }
+        )
+    return buf.getvalue()
+
+
+def _save(ax, outs):
+    from .. import draw
+
+    for o in outs:
+        draw.save_figure(ax, o)
+        print(f"wrote {o}")
+
+
+def _parser(sub, name, help_text, description, example):
+    return sub.add_parser(
+        name,
+        help=help_text,
+        description=description,
+        epilog=f"example: {example}\n\n{_SAFETY}",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+
+
+# ------------------------------------------------------------------ solubility
+def _cmd_solubility(a, map_kwargs):
+    import numpy as np
+
+    from ..domain_map import compute_map
+    from .solubility import (
+        DEFAULT_LEVELS,
+        add_solubility_lines,
+        draw_solubility_curve,
+        solubility_curve,
+        solubility_minimum,
+    )
+
+    element = _one_element(a, "solubility")
+    if (a.potential is None) == (a.along is None):
+        raise OptionError("solubility: give either --potential E or --along oxygen|hydrogen")
+    lo, hi = a.ph
+    if not hi > lo:
+        raise OptionError(f"--ph: LO must be below HI, got {lo:g} {hi:g}")
+    if not (0 < a.step <= hi - lo):
+        raise OptionError(
+            f"--step must be above 0 and at most the pH span ({hi - lo:g}), got {a.step:g}"
+        )
+    outs = _outputs(a.out, (*_FIGURES, ".csv", ".json"))
+    map_outs = _outputs(a.map_out, _FIGURES, "--map-out")
+    kwargs = map_kwargs(a)
+    kwargs["ph_range"] = (min(lo, -2.0), max(hi, 16.0))
+    dmap = compute_map(element, **kwargs)
+    _notes(dmap)
+    n = int(round((hi - lo) / a.step))
+    ph = np.linspace(lo, lo + n * a.step, n + 1)
+    ph = ph[ph <= hi + 1e-9]
+    res = solubility_curve(dmap, ph, potential_v=a.potential, along=a.along)
+    ph_min, at_min = solubility_minimum(
+        dmap, potential_v=a.potential, along=a.along, ph_range=(lo, hi)
+    )
+    ref = dmap.conditions.reference
+    rows = res.rows()
+    if a.json:
+        print(
+            json.dumps(
+                {
+                    "element": element,
+                    "reference": ref,
+                    "rows": rows,
+                    "minimum": {
+                        "ph": ph_min,
+                        "total_mol_kg": float(at_min.total_molality),
+                        "solid": at_min.solid,
+                    },
+                },
+                indent=2,
+                ensure_ascii=False,
+                allow_nan=False,
+                default=str,
+            )
+        )
+    else:
+        where = (
+            f"E = {a.potential:+.3f} V vs {ref}"
+            if a.along is None
+            else f"along the {a.along} water line (1 bar), vs {ref}"
+        )
+        c = dmap.conditions
+        print(
+            f"Solubility of {element} at {c.temperature_c:g} °C, {where}: total dissolved {element} in equilibrium "
+            f"with the least-soluble solid"
+        )
+        print(
+            f"{'pH':>6}  {'E [V]':>7}  {'log10 S':>8}  {'S [mol/kg]':>10}  {'solid':<14} {'main dissolved':<16} at the map's activity"
+        )
+        for r in rows:
+            e = r[f"potential_v_vs_{ref}"]
+            print(
+                f"{r['ph']:6.2f}  {e:+7.3f}  {r['log10_total']:8.3f}  {r['total_mol_kg']:10.3g}  {r['solid']:<14} {r['dominant']:<16} {r['saturation']}"
+            )
+        print(
+            f"minimum: pH {ph_min:.2f}, S = {float(at_min.total_molality):.3g} mol/kg ({at_min.solid}, mainly {at_min.dominant})"
+        )
+        if np.nanmax(res.log10_total) > 0:
+            print(
+                "note: S above 1 mol/kg means no solid can form there (the solid would dissolve entirely)"
+            )
+    for o in outs:
+        if o.suffix.lower() == ".csv":
+            _write_text(o, _csv_text(rows))
+        elif o.suffix.lower() == ".json":
+            _write_text(
+                o,
+                json.dumps(
+                    {"element": element, "reference": ref, "rows": rows},
+                    indent=2,
+                    ensure_ascii=False,
+                    default=str,
+                )
+                + "\n",
+            )
+    figs = [o for o in outs if o.suffix.lower() in _FIGURES]
+    if figs:
+        fine = np.linspace(lo, hi, max(201, int((hi - lo) / 0.02) + 1))
+        _save(
+            draw_solubility_curve(
+                solubility_curve(dmap, fine, potential_v=a.potential, along=a.along)
+            ),
+            figs,
+        )
+    if map_outs:
+        from .. import draw
+
+        ax = draw.draw_map(dmap)
+        add_solubility_lines(ax, dmap, a.levels or DEFAULT_LEVELS, basis=a.basis)
+        _save(ax, map_outs)
+    return 0
+
+
+# ------------------------------------------------------------------ window
+def _cmd_window(a, map_kwargs):
+    from .windows import _describe, draw_window, leach_window
+
+    target = _one_element(a, "window")
+    outs = _outputs(a.out, (*_FIGURES, ".json"))
+    kwargs = map_kwargs(a)
+    w = leach_window(
+        target,
+        a.keep_solid or (),
+        a.dissolved_at_least,
+        a.others_at_most,
+        basis=a.basis,
+        within_water=not a.beyond_water,
+        **kwargs,
+    )
+    for m in w.maps.values():
+        _notes(m)
+    if a.json:
+        print(json.dumps(w.to_dict(), indent=2, ensure_ascii=False))
+    else:
+        print("\n".join(_describe(w)))
+        for note in w.notes[1:]:
+            print(f"  note: {note}")
+    for o in outs:
+        if o.suffix.lower() == ".json":
+            _write_text(o, json.dumps(w.to_dict(), indent=2, ensure_ascii=False) + "\n")
+    figs = [o for o in outs if o.suffix.lower() in _FIGURES]
+    if figs:
+        _save(draw_window(w), figs)
+    return 0
+
+
+# ------------------------------------------------------------------ field
+def _cmd_field(a, map_kwargs):
+    from ..domain_map import compute_map
+    from .field import _table_lines, draw_field, place_readings, read_field_csv
+
+    outs = _outputs(a.out, (*_FIGURES, ".json", ".csv"))
+    data = read_field_csv(a.readings)
+    for p in data.problems:
+        print(
+            f"pourbaix: skipped {a.readings}:{p.line}: {p.reason}"
+            + (f" (column {p.column})" if p.column else ""),
+            file=sys.stderr,
+        )
+    if not data.rows:
+        raise DataFileError(
+            [
+                (
+                    str(a.readings),
+                    0,
+                    "",
+                    f"no usable reading ({len(data.problems)} row(s) skipped, listed above)",
+                )
+            ]
+        )
+    dmap = compute_map(a.element, **map_kwargs(a))
+    _notes(dmap)
+    data = place_readings(dmap, data)
+    if a.json:
+        print(
+            json.dumps(
+                {
+                    "reference": data.reference,
+                    "readings": data.table(),
+                    "problems": [
+                        {"line": p.line, "column": p.column, "reason": p.reason}
+                        for p in data.problems
+                    ],
+                    "notes": data.notes,
+                },
+                indent=2,
+                ensure_ascii=False,
+            )
+        )
+    else:
+        c = dmap.conditions
+        print(
+            f"{len(data.rows)} reading(s) on the {'-'.join(c.elements)} map at {c.temperature_c:g} °C, "
+            f"potentials vs {c.reference}; {len(data.problems)} row(s) skipped"
+        )
+        print("\n".join(_table_lines(data)))
+        for n in data.notes:
+            print(f"note: {n}")
+        if any(r.state == "passivation" for r in data.rows):
+            print(
+                "note: passivation means a solid is thermodynamically stable; whether it protects is a kinetic question"
+            )
+    for o in outs:
+        if o.suffix.lower() == ".json":
+            _write_text(
+                o,
+                json.dumps(
+                    {"reference": data.reference, "readings": data.table()},
+                    indent=2,
+                    ensure_ascii=False,
+                )
+                + "\n",
+            )
+        elif o.suffix.lower() == ".csv":
+            _write_text(o, _csv_text(data.table()))
+    figs = [o for o in outs if o.suffix.lower() in _FIGURES]
+    if figs:
+        _save(draw_field(dmap, data), figs)
+    return 0
+
+
+# ------------------------------------------------------------------ reading
+def _cmd_reading(a, map_kwargs):
+    from .reading import corrosion_reading
+
+    element = _one_element(a, "reading")
+    kwargs = map_kwargs(a)
+    ref = kwargs.pop("reference")
+    r = corrosion_reading(element, a.ph, a.potential, ref, **kwargs)
+    if a.json:
+        print(json.dumps(r.to_dict(), indent=2, ensure_ascii=False))
+        return 0
+    print(
+        f"{element} at pH {r.ph:g}, E = {r.potential_v:+.3f} V vs {r.reference} ({r.potential_v_she:+.3f} V vs SHE), {r.temperature_c:g} °C"
+    )
+    print(f"  reading:  {r.reading.upper()} ({r.state}; stable: {r.species})")
+    if r.margin_to_immunity_mv is None:
+        print(f"  immunity: none at pH {r.ph:g}")
+    elif r.margin_to_immunity_mv > 0:
+        print(
+            f"  immunity: below {r.immunity_potential_v:+.3f} V vs {r.reference}; the potential must fall {r.margin_to_immunity_mv:.0f} mV to reach it"
+        )
+    else:
+        print(
+            f"  immunity: up to {r.immunity_potential_v:+.3f} V vs {r.reference}; {-r.margin_to_immunity_mv:.0f} mV of room inside it"
+        )
+    if r.cp_check is not None:
+        cp = r.cp_check
+        verdict = "more negative than" if cp["meets"] else "less negative than"
+        print(
+            f"  cathodic-protection criterion (common practice): {cp['potential_v']:+.3f} V vs {cp['reference']} is "
+            f"{abs(cp['difference_mv']):.0f} mV {verdict} {cp['criterion_v']:+.2f} V"
+        )
+    for text in r.cautions:
+        print(f"  caution: {text}")
+    return 0
+
+
+# ------------------------------------------------------------------ compare
+def _cmd_compare(a, map_kwargs):
+    from ..data import load_species
+    from ..domain_map import compute_map
+    from .compare import _table_lines, compare_maps, draw_comparison
+
+    outs = _outputs(a.out, (*_FIGURES, ".json", ".csv"))
+    base = map_kwargs(a)
+    other = dict(base)
+    changed = []
+    if a.against_dataset is not None:
+        other["dataset"] = a.against_dataset
+        changed.append("dataset")
+    if a.against_temperature is not None:
+        other["temperature_c"] = a.against_temperature
+        changed.append("temperature")
+    if a.against_activity is not None:
+        other["activity"] = a.against_activity
+        other["molality"] = None
+        changed.append("activity")
+    if a.against_data:
+        other["data_files"] = tuple(base.get("data_files", ())) + tuple(a.against_data)
+        changed.append("data")
+    if not changed:
+        raise OptionError(
+            "compare: say what the second map changes: --against-dataset, --against-temperature, --against-activity or --against-data"
+        )
+    if (
+        base.get("table") is None
+        and other.get("dataset") == base.get("dataset")
+        and other.get("data_files") == base.get("data_files")
+    ):
+        table = load_species(base.get("dataset", "default"), tuple(base.get("data_files", ())))
+        base["table"] = other["table"] = table
+    map_a = compute_map(a.element, **base)
+    map_b = compute_map(a.element, **other)
+    _notes(map_a)
+    _notes(map_b)
+    cmp = compare_maps(map_a, map_b, ph=a.at_ph)
+    rows = cmp.rows()
+    if a.json:
+        print(
+            json.dumps(
+                {
+                    "map_a": cmp.label_a,
+                    "map_b": cmp.label_b,
+                    "reference": cmp.reference,
+                    "boundaries": rows,
+                    "notes": cmp.notes,
+                },
+                indent=2,
+                ensure_ascii=False,
+            )
+        )
+    else:
+        print("\n".join(_table_lines(cmp)))
+    for o in outs:
+        if o.suffix.lower() == ".json":
+            _write_text(
+                o,
+                json.dumps(
+                    {
+                        "map_a": cmp.label_a,
+                        "map_b": cmp.label_b,
+                        "reference": cmp.reference,
+                        "boundaries": rows,
+                    },
+                    indent=2,
+                    ensure_ascii=False,
+                )
+                + "\n",
+            )
+        elif o.suffix.lower() == ".csv":
+            _write_text(o, _csv_text(rows))
+    figs = [o for o in outs if o.suffix.lower() in _FIGURES]
+    if figs:
+        _save(draw_comparison(cmp), figs)
+    return 0
+
+
+# ------------------------------------------------------------------ registration
+def register(sub, add_conditions, map_kwargs):
+    """Add the analysis commands to the main parser.
+
+    Parameters
+    ----------
+    sub : argparse._SubParsersAction
+        The main parser's subcommands.
+    add_conditions : callable
+        ``add_conditions(parser, window=True)`` adds the common condition options.
+    map_kwargs : callable
+        ``map_kwargs(args)`` turns them into keyword arguments of ``compute_map``.
+    """
+    from .solubility import DEFAULT_LEVELS
+
+    p = _parser(
+        sub,
+        "solubility",
+        "total dissolved element against pH (table, curve, iso-solubility lines)",
+        "Total dissolved element in equilibrium with its least-soluble solid, summed over every dissolved "
+        "species (complexes included), along pH at a fixed potential or along a water line.",
+        "pourbaix solubility Zn --potential 0.0 --ph 4 14 --out zn.png --out zn.csv",
+    )
+    add_conditions(p, window=False)
+    p.add_argument(
+        "--potential", type=_number, metavar="E", help="fixed potential [V vs --reference]"
+    )
+    p.add_argument(
+        "--along",
+        choices=("oxygen", "hydrogen"),
+        help="follow the O2/H2O or H2O/H2 line (1 bar) instead",
+    )
+    p.add_argument(
+        "--ph",
+        nargs=2,
+        type=_number,
+        metavar=("LO", "HI"),
+        default=(0.0, 14.0),
+        help="pH range of the table (default 0 14)",
+    )
+    p.add_argument(
+        "--step",
+        type=_positive,
+        default=0.5,
+        metavar="DPH",
+        help="pH step of the table (default 0.5)",
+    )
+    p.add_argument(
+        "--out",
+        action="append",
+        default=[],
+        metavar="FILE",
+        help="curve as .png/.svg/.pdf, table as .csv/.json; repeatable",
+    )
+    p.add_argument(
+        "--map-out",
+        action="append",
+        default=[],
+        metavar="FILE",
+        help="the map with iso-solubility lines (.png/.svg/.pdf)",
+    )
+    p.add_argument(
+        "--levels",
+        nargs="+",
+        type=_positive,
+        default=list(DEFAULT_LEVELS),
+        metavar="MOL_KG",
+        help="levels of the iso-solubility lines (default 1e-2 1e-4 1e-6 1e-8)",
+    )
+    p.add_argument(
+        "--basis",
+        choices=("total", "species"),
+        default="total",
+        help="lines of the total (default) or of each dissolved species on its own",
+    )
+    p.add_argument("--json", action="store_true", help="print JSON")
+    p.set_defaults(func=lambda a: _cmd_solubility(a, map_kwargs), window=False)
+
+    w = _parser(
+        sub,
+        "window",
+        "leach/separation window: where one element dissolves and others stay solid",
+        "The region of pH and potential where ELEMENT is dissolved at or above a level while each element "
+        "given with --keep-solid stays solid or dissolved at or below its level; with its area, bounds, the "
+        "point with most room and the room there. An empty window says which condition rules it out.",
+        "pourbaix window Cu --keep-solid Fe --dissolved-at-least 1e-2 --others-at-most 1e-5 --ligand S=0.1 --out w.png",
+    )
+    add_conditions(w)
+    w.add_argument(
+        "--keep-solid",
+        nargs="+",
+        action="extend",
+        metavar="ELEMENT",
+        help="element(s) to keep solid (repeatable)",
+    )
+    w.add_argument(
+        "--dissolved-at-least",
+        type=_positive,
+        default=1e-2,
+        metavar="MOL_KG",
+        help="level ELEMENT must reach (default 1e-2)",
+    )
+    w.add_argument(
+        "--others-at-most",
+        type=_positive,
+        default=1e-5,
+        metavar="MOL_KG",
+        help="level the kept elements must stay under (default 1e-5)",
+    )
+    w.add_argument(
+        "--basis",
+        choices=("total", "species"),
+        default="total",
+        help="total dissolved (default) or each dissolved species on its own",
+    )
+    w.add_argument(
+        "--beyond-water",
+        action="store_true",
+        help="do not limit the window to the stability field of water",
+    )
+    w.add_argument(
+        "--out",
+        action="append",
+        default=[],
+        metavar="FILE",
+        help="figure (.png/.svg/.pdf) or .json; repeatable",
+    )
+    w.add_argument("--json", action="store_true", help="print JSON")
+    w.set_defaults(func=lambda a: _cmd_window(a, map_kwargs), window=True)
+
+    f = _parser(
+        sub,
+        "field",
+        "place field readings (CSV) on a map",
+        "Read measured points (columns ph, potential_v, reference; optional temperature_c, label, time), convert "
+        "each to SHE and to the map's reference, classify it (species, state, margins) and print a table; bad rows "
+        "are listed with their line numbers and the rest are used.",
+        "pourbaix field Fe --readings loop.csv --reference SCE --out loop.png",
+    )
+    add_conditions(f)
+    f.add_argument("--readings", required=True, metavar="FILE.csv", help="the readings")
+    f.add_argument(
+        "--out",
+        action="append",
+        default=[],
+        metavar="FILE",
+        help="figure (.png/.svg/.pdf), .csv or .json; repeatable",
+    )
+    f.add_argument("--json", action="store_true", help="print JSON")
+    f.set_defaults(func=lambda a: _cmd_field(a, map_kwargs), window=True)
+
+    r = _parser(
+        sub,
+        "reading",
+        "corrosion reading of one measurement (immune, passive, corroding)",
+        "Read a measured potential (vs --reference) and pH against the metal's map: immune, passive or "
+        "corroding, the margin to immunity in mV and, for iron/steel, the usual cathodic-protection criterion "
+        "(-0.85 V vs Cu/CuSO4, common practice) alongside.",
+        "pourbaix reading Fe --ph 8 --potential -0.9 --reference Cu/CuSO4",
+    )
+    add_conditions(r, window=False)
+    r.add_argument("--ph", type=_number, required=True, metavar="X", help="measured pH")
+    r.add_argument(
+        "--potential",
+        type=_number,
+        required=True,
+        metavar="E",
+        help="measured potential [V vs --reference]",
+    )
+    r.add_argument("--json", action="store_true", help="print JSON")
+    r.set_defaults(func=lambda a: _cmd_reading(a, map_kwargs), window=False)
+
+    c = _parser(
+        sub,
+        "compare",
+        "how far each boundary moves between two maps",
+        "Compute the map twice - as given, and with another data set, temperature, activity or user data file - "
+        "and list how far each boundary moved (mV at a pH, or pH for vertical lines); draws both on one figure.",
+        "pourbaix compare Fe --dataset default --against-dataset bpj85 --out fe-sets.png",
+    )
+    add_conditions(c)
+    c.add_argument("--against-dataset", metavar="NAME", help="second map: this data set")
+    c.add_argument(
+        "--against-temperature", type=_number, metavar="C", help="second map: this temperature [°C]"
+    )
+    c.add_argument(
+        "--against-activity",
+        type=_positive,
+        metavar="A",
+        help="second map: this activity of dissolved species",
+    )
+    c.add_argument(
+        "--against-data",
+        action="append",
+        default=[],
+        metavar="FILE",
+        help="second map: add this user species table",
+    )
+    c.add_argument(
+        "--at-ph",
+        type=_number,
+        metavar="X",
+        help="compare every sloped boundary at this pH (default: each boundary's midpoint)",
+    )
+    c.add_argument(
+        "--out",
+        action="append",
+        default=[],
+        metavar="FILE",
+        help="overlay figure (.png/.svg/.pdf), .csv or .json; repeatable",
+    )
+    c.add_argument("--json", action="store_true", help="print JSON")
+    c.set_defaults(func=lambda a: _cmd_compare(a, map_kwargs), window=True)
