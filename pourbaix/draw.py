@@ -586,6 +586,197 @@ def _label_pending(ax, dmap, placer, pending, polys_px, poles_px, *, light=False
         )
 
 
+# ------------------------------------------------------------- numbered key
+_MAX_OUTSIDE_LABELS = 6  # more labels than this that do not fit inside: number them instead
+_OUTSIDE_SHARE = 0.05  # or one outside label box covering more than this share of the axes
+_OUTSIDE_TOTAL_SHARE = 0.15  # or all outside label boxes together covering more than this
+_NUMBER_SIZES = (7.0, 6.0)  # [pt] number in its circle: usual, then shrunk
+_NUMBER_PAD = 0.22  # circle padding, in units of the font size
+_KEY_SIZE = 8.0  # [pt] label text in the key
+_KEY_GAP_PT = 10.0  # [pt] between the axes decorations and the key, and between key columns
+
+
+def _needs_numbers(ax, dmap, placer, pending):
+    """Whether the labels that do not fit inside should become numbered markers.
+
+    True when they are more than :data:`_MAX_OUTSIDE_LABELS`, or when their
+    boxes outside would cover a large share of the axes (one box over
+    :data:`_OUTSIDE_SHARE`, all together over :data:`_OUTSIDE_TOTAL_SHARE`).
+    """
+    if len(pending) > _MAX_OUTSIDE_LABELS:
+        return True
+    if not pending:
+        return False
+    area = max(ax.bbox.width * ax.bbox.height, 1.0)
+    shares = []
+    for i in pending:
+        t = ax.text(0, 0, dmap.domains[i].label, fontsize=_SMALL_LABEL_SIZE)
+        w, h, _, _ = placer.measure(t)
+        t.remove()
+        bpad = 0.18 * _SMALL_LABEL_SIZE * placer.px_per_pt
+        shares.append((w + 2 * bpad) * (h + 2 * bpad) / area)
+    return max(shares) > _OUTSIDE_SHARE or sum(shares) > _OUTSIDE_TOTAL_SHARE
+
+
+def _number_text(ax, n, size, gid, **kw):
+    return ax.text(
+        0,
+        0,
+        str(n),
+        fontsize=size,
+        ha="center",
+        va="center",
+        color=_INK,
+        gid=gid,
+        bbox=dict(
+            boxstyle=f"circle,pad={_NUMBER_PAD}",
+            facecolor="white",
+            edgecolor="#4a4a4a",
+            linewidth=0.6,
+        ),
+        **kw,
+    )
+
+
+def _circle_size(placer, t, size):
+    """Width and height of the circle drawn around a number, and the text's centre offset [px]."""
+    w, h, ox, oy = placer.measure(t)
+    d = max(w, h) + 2 * _NUMBER_PAD * size * placer.px_per_pt
+    return d, ox, oy
+
+
+def _number_pending(ax, dmap, placer, pending, polys_px, poles_px):
+    """Mark each domain in ``pending`` by a number in a small circle; return {domain: number}.
+
+    Numbers run in reading order of the label points (top to bottom, then
+    left to right). A number sits at its domain's label point when that spot
+    is free, else at the roomiest free spot inside the domain, else in a
+    smaller size; failing all, just outside with a short leader. Numbers
+    never overlap each other or the labels already placed.
+    """
+    import shapely
+
+    ppt = placer.px_per_pt
+    # reading order in bands of ~14 pt so nearly level points read left to right
+    band = 14 * ppt
+    order = sorted(pending, key=lambda i: (-round(poles_px[i][1] / band), poles_px[i][0]))
+    numbers = {i: n for n, i in enumerate(order, start=1)}
+    for i in sorted(pending, key=lambda k: dmap.domains[k].area):
+        gid = f"pourbaix-label:number:{i}"
+        pole = poles_px[i]
+        done = False
+        for size in _NUMBER_SIZES:
+            t = _number_text(ax, numbers[i], size, gid, zorder=8)
+            d, ox, oy = _circle_size(placer, t, size)
+            box = _boxes_at(pole, d, d)
+            c = None
+            if placer.clear(box)[0] and polys_px[i].contains(shapely.Point(pole)):
+                c = tuple(pole)
+            else:
+                c = _fit_inside(placer, polys_px[i], d, d)
+            if c is not None:
+                t.set_position(placer.to_data((c[0] - ox, c[1] - oy)))
+                placer.take(_boxes_at(c, d, d)[0])
+                done = True
+                break
+            t.remove()
+        if done:
+            continue
+        size = _NUMBER_SIZES[-1]
+        t = _number_text(ax, numbers[i], size, gid, zorder=8)
+        d, ox, oy = _circle_size(placer, t, size)
+        c = _place_outside(placer, pole, d, d, [], [])
+        if c is None:  # no free spot anywhere in the axes: at the point regardless
+            c = tuple(pole)
+        box = _boxes_at(c, d, d)[0]
+        t.set_position(placer.to_data((c[0] - ox, c[1] - oy)))
+        placer.take(box)
+        q = _nearest_on_box(pole, box)
+        placer.leaders.append((tuple(pole), q))
+        a, b = placer.to_data(pole), placer.to_data(q)
+        ax.plot(
+            [a[0], b[0]],
+            [a[1], b[1]],
+            color="#3c3c3c",
+            lw=0.6,
+            zorder=7,
+            gid=f"pourbaix-leader:{i}",
+        )
+        ax.plot(
+            [a[0]], [a[1]], "o", ms=2.0, color="#1f1f1f", zorder=7.5, gid=f"pourbaix-leader-dot:{i}"
+        )
+    return numbers
+
+
+def _draw_key(ax, dmap, numbers, renderer, *, grow):
+    """List "number  label" for the numbered domains to the right of the axes.
+
+    Entries fill columns as tall as the axes, as many columns as needed. When
+    ``grow`` is true (a figure of our own) the figure is widened so the key
+    fits and the axes keep their size in inches; on a user's axes the key is
+    placed the same way and the user sizes the figure.
+    """
+    fig = ax.figure
+    ppt = fig.dpi / 72.0
+    entries = sorted(numbers.items(), key=lambda kv: kv[1])
+    tight = ax.get_tightbbox(renderer)
+    right_pt = max(tight.x1 - ax.bbox.x1, 0.0) / ppt + _KEY_GAP_PT
+    line_pt = _KEY_SIZE * 1.75
+    height_pt = ax.bbox.height / ppt
+    rows = max(1, int(height_pt // line_pt))
+    ncol = math.ceil(len(entries) / rows)
+    rows = math.ceil(len(entries) / ncol)
+    num_w_pt = (_KEY_SIZE - 1.0) * 1.9  # room for a two-digit number in its circle
+    x_pt = right_pt
+    for col in range(ncol):
+        chunk = entries[col * rows : (col + 1) * rows]
+        widest = 0.0
+        for r, (i, n) in enumerate(chunk):
+            y_pt = -(r + 0.5) * line_pt
+            num = ax.annotate(
+                str(n),
+                xy=(1.0, 1.0),
+                xycoords="axes fraction",
+                xytext=(x_pt + num_w_pt / 2, y_pt),
+                textcoords="offset points",
+                ha="center",
+                va="center",
+                fontsize=_KEY_SIZE - 1.0,
+                color=_INK,
+                annotation_clip=False,
+                gid=f"pourbaix-key-number:{i}",
+                bbox=dict(
+                    boxstyle=f"circle,pad={_NUMBER_PAD}",
+                    facecolor="white",
+                    edgecolor="#4a4a4a",
+                    linewidth=0.6,
+                ),
+            )
+            lab = ax.annotate(
+                dmap.domains[i].label,
+                xy=(1.0, 1.0),
+                xycoords="axes fraction",
+                xytext=(x_pt + num_w_pt + 4.0, y_pt),
+                textcoords="offset points",
+                ha="left",
+                va="center",
+                fontsize=_KEY_SIZE,
+                color=_INK,
+                annotation_clip=False,
+                gid=f"pourbaix-key:{i}",
+            )
+            del num
+            widest = max(widest, lab.get_window_extent(renderer).width / ppt)
+        x_pt += num_w_pt + 4.0 + widest + _KEY_GAP_PT
+    if grow:
+        w, h = fig.get_size_inches()
+        need_in = (ax.bbox.x1 / ppt + x_pt) / 72.0
+        if need_in > w:
+            pos = ax.get_position()
+            fig.set_size_inches(need_in, h)
+            fig.subplots_adjust(left=pos.x0 * w / need_in, right=pos.x1 * w / need_in)
+
+
 def _label_line(
     ax, placer, text, e0, slope, *, colour, size=8.0, above=True, gid="pourbaix-label:line"
 ):
@@ -1066,7 +1257,11 @@ def draw_map(
             placer.lines.pop()  # its own line does not count against the neutral note
             _label_neutral(ax, placer, neutral)
     if labels:
-        _label_pending(ax, dmap, placer, pending, polys_px, poles_px)
+        if _needs_numbers(ax, dmap, placer, pending):
+            numbers = _number_pending(ax, dmap, placer, pending, polys_px, poles_px)
+            _draw_key(ax, dmap, numbers, renderer, grow=own)
+        else:
+            _label_pending(ax, dmap, placer, pending, polys_px, poles_px)
     return ax
 
 

@@ -208,18 +208,27 @@ def test_labels_do_not_overlap_on_many_tiny_domains():
     ax = draw.draw_map(m)
     assert_no_overlaps(ax)
     leaders = [ln for ln in ax.lines if str(ln.get_gid()).startswith("pourbaix-leader:")]
-    assert len(leaders) >= 5  # the tiny ones had to go outside
+    numbers = label_texts(ax, "number")
+    assert len(leaders) + len(numbers) >= 5  # the tiny ones went outside or got numbers
 
 
 @pytest.mark.parametrize("make", [lambda maps: maps["Mn"], lambda maps: crowded_map()])
 def test_every_domain_has_exactly_one_label(maps, make):
     m = make(maps)
     ax = draw.draw_map(m)
-    gids = [t.get_gid() for t in label_texts(ax, "domain")]
-    assert sorted(gids) == sorted(f"pourbaix-label:domain:{i}" for i in range(len(m.domains)))
-    by_gid = {t.get_gid(): t for t in label_texts(ax, "domain")}
-    for i, d in enumerate(m.domains):
-        assert by_gid[f"pourbaix-label:domain:{i}"].get_text() == d.label
+    marks = label_texts(ax, "domain") + label_texts(ax, "number")
+    owners = sorted(int(t.get_gid().rsplit(":", 1)[1]) for t in marks)
+    assert owners == list(range(len(m.domains)))  # one label or one number each
+    keyed = {
+        t.get_gid().rsplit(":", 1)[1]: t.get_text()
+        for t in ax.texts
+        if str(t.get_gid()).startswith("pourbaix-key:")
+    }
+    for t in marks:
+        i = t.get_gid().rsplit(":", 1)[1]
+        # a label shows the domain's text; a number's text is in the key
+        text = t.get_text() if ":domain:" in t.get_gid() else keyed[i]
+        assert text == m.domains[int(i)].label
 
 
 def test_labels_sit_inside_their_domain_or_lead_to_it():
@@ -233,10 +242,17 @@ def test_labels_sit_inside_their_domain_or_lead_to_it():
         for ln in ax.lines
         if str(ln.get_gid()).startswith("pourbaix-leader:")
     }
-    for t in label_texts(ax, "domain"):
+    for t in label_texts(ax, "domain") + label_texts(ax, "number"):
         i = t.get_gid().rsplit(":", 1)[1]
         d = m.domains[int(i)]
-        if i in leaders:
+        if ":number:" in t.get_gid() and i not in leaders:
+            # a number without a leader is centred inside its domain
+            b = boxes_of([t], renderer)[0]
+            x, y = ax.transData.inverted().transform(((b.x0 + b.x1) / 2, (b.y0 + b.y1) / 2))
+            assert d.polygon.buffer(1e-6).contains(shapely.Point(x, y)), (
+                f"number {t.get_text()} off its domain"
+            )
+        elif i in leaders:
             x, y = leaders[i].get_data()
             # the leader starts at the domain's label point, inside the domain
             assert (x[0], y[0]) == pytest.approx(d.label_point)
@@ -551,7 +567,7 @@ def test_map_without_temperature_data_draws_without_neutral_marker(monkeypatch):
     monkeypatch.setattr(type(m), "neutral_ph", property(no_thermo))
     ax = draw.draw_map(m)
     assert not [ln for ln in ax.lines if ln.get_gid() == "pourbaix-neutral"]
-    assert len(label_texts(ax, "domain")) == len(m.domains)
+    assert len(label_texts(ax, "domain")) + len(label_texts(ax, "number")) == len(m.domains)
 
 
 def test_overlay_water_lines_once_when_shared_and_per_map_when_not(maps):
@@ -565,3 +581,74 @@ def test_overlay_water_lines_once_when_shared_and_per_map_when_not(maps):
     ax2 = draw.draw_overlay(sweep)
     water2 = [ln for ln in ax2.lines if str(ln.get_gid()).startswith("pourbaix-water")]
     assert len(water2) == 4  # the water lines move with temperature: one pair per map
+
+
+# ------------------------------------------------------------ numbered key
+@pytest.fixture(scope="module")
+def steel():
+    """Fe-Cr-Ni at 70:19:11, an austenitic stainless steel composition (common practice): 46 domains."""
+    return pourbaix.compute_map(["Fe", "Cr", "Ni"], ratio=(70, 19, 11), activity=1e-6)
+
+
+def test_crowded_steel_map_numbers_domains_without_overlaps(steel):
+    ax = draw.draw_map(steel)
+    texts = assert_no_overlaps(ax)  # labels and numbers, inside the frame, none overlapping
+    numbers = label_texts(ax, "number")
+    labels = label_texts(ax, "domain")
+    assert len(numbers) > 6  # the crowded case really switched to numbers
+    assert set(numbers) | set(labels) <= set(texts)
+    owners = [int(t.get_gid().rsplit(":", 1)[1]) for t in labels + numbers]
+    assert sorted(owners) == list(range(len(steel.domains)))  # exactly one label or one number each
+    assert sorted(int(t.get_text()) for t in numbers) == list(range(1, len(numbers) + 1))
+    for t in labels:
+        assert t.get_text() == steel.domains[int(t.get_gid().rsplit(":", 1)[1])].label
+
+
+def test_key_lists_every_numbered_domain_outside_the_axes(steel):
+    ax = draw.draw_map(steel)
+    fig = ax.figure
+    fig.canvas.draw()
+    renderer = fig.canvas.get_renderer()
+    numbers = {t.get_gid().rsplit(":", 1)[1]: t.get_text() for t in label_texts(ax, "number")}
+    key = {
+        t.get_gid().rsplit(":", 1)[1]: t
+        for t in ax.texts
+        if str(t.get_gid()).startswith("pourbaix-key:")
+    }
+    key_num = {
+        t.get_gid().rsplit(":", 1)[1]: t.get_text()
+        for t in ax.texts
+        if str(t.get_gid()).startswith("pourbaix-key-number:")
+    }
+    assert set(key) == set(numbers) == set(key_num)
+    for i, n in numbers.items():
+        assert key_num[i] == n  # the key's number is the one on the map
+        assert key[i].get_text() == steel.domains[int(i)].label
+    boxes = boxes_of(list(key.values()), renderer)
+    fig_box = fig.bbox
+    for b in boxes:
+        assert b.x0 > ax.bbox.x1  # right of the plot, off the map
+        assert (
+            fig_box.x0 <= b.x0 and b.x1 <= fig_box.x1 and fig_box.y0 <= b.y0 and b.y1 <= fig_box.y1
+        )
+    for b1, b2 in itertools.combinations(boxes, 2):
+        assert min(b1.x1, b2.x1) <= max(b1.x0, b2.x0) or min(b1.y1, b2.y1) <= max(b1.y0, b2.y0)
+
+
+def test_key_grows_the_figure_not_the_map(steel, maps):
+    plain = draw.draw_map(maps["Fe"])
+    ax = draw.draw_map(steel)
+    w_plain, h_plain = plain.figure.get_size_inches()
+    w, h = ax.figure.get_size_inches()
+    assert w > w_plain and h == pytest.approx(h_plain)
+    # the axes keep their size in inches
+    size = lambda a: (a.bbox.width / a.figure.dpi, a.bbox.height / a.figure.dpi)  # noqa: E731
+    assert size(ax) == pytest.approx(size(plain), abs=1e-6)
+
+
+@pytest.mark.parametrize("element", ["Fe", "Cu", "Zn"])
+def test_simple_maps_keep_labels_and_no_key(maps, element):
+    ax = draw.draw_map(maps[element])
+    assert label_texts(ax, "number") == []
+    assert not [t for t in ax.texts if str(t.get_gid()).startswith("pourbaix-key")]
+    assert tuple(ax.figure.get_size_inches()) == pytest.approx(draw.FIGURE_SIZE_IN)
