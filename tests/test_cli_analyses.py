@@ -294,3 +294,20 @@ def test_compare_activity_figure(tmp_path, capsys):
 def test_compare_bad_input(capsys, args, message):
     code, _, err = run(capsys, *args)
     assert code == 2 and message in err
+
+
+def test_compare_figure_refuses_a_reference_that_moves_with_temperature(tmp_path, capsys):
+    png = tmp_path / "c.png"
+    code, _, err = run(
+        capsys,
+        "compare",
+        "Fe",
+        "--reference",
+        "SCE",
+        "--against-temperature",
+        "60",
+        "--out",
+        str(png),
+    )
+    assert code == 2 and "moves between 25 and 60 °C" in err and one_error_line(err)
+    assert not png.exists()

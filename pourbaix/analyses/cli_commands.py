@@ -412,6 +412,15 @@ def _cmd_compare(a, map_kwargs):
     _notes(map_a)
     _notes(map_b)
     cmp = compare_maps(map_a, map_b, ph=a.at_ph)
+    ca, cb = map_a.conditions, map_b.conditions
+    if any(o.suffix.lower() in _FIGURES for o in outs) and (
+        abs(ca.reference_offset_v - cb.reference_offset_v) > 1e-9
+        or ca.reference_slope_v_per_ph != cb.reference_slope_v_per_ph
+    ):
+        raise OptionError(
+            f"--out: the {ca.reference} electrode itself moves between {ca.temperature_c:g} and {cb.temperature_c:g} °C, "
+            "so one potential axis cannot serve both maps; draw the overlay vs SHE (--reference SHE)"
+        )
     rows = cmp.rows()
     if a.json:
         print(

@@ -331,12 +331,18 @@ def _evaluate(model, dmap, ph, potential_v):
     xd = model.x[d]
     # log10 a_i = log10 a_set + x_i (psi_s - psi_i(a_set)) / k_T   (module docstring)
     log_a = model.log_a_set[d][None, :] + xd[None, :] * (psi_s[:, None] - psi[:, d]) / model.k
-    log_m = log_a - model.log_gamma[d][None, :]
-    log_total = _log10_sum(log_m + np.log10(xd)[None, :])
+    log_m = (
+        log_a - model.log_gamma[d][None, :]
+    )  # m = a / γ (molal activity coefficient, IUPAC definition)
+    log_total = _log10_sum(
+        log_m + np.log10(xd)[None, :]
+    )  # S = Σ x_i m_i (mass balance on the element)
     with np.errstate(over="ignore"):
         total = 10.0**log_total
         species_m = 10.0**log_m
     dom = np.argmax(log_m + np.log10(xd)[None, :], axis=1)
+    # saturation index log10(a_set / a_i) = x_i (psi_i - psi_s) / k_T (from the equilibrium relation above);
+    # the least under-saturated species decides, as on the map
     si = np.min(xd[None, :] * (psi[:, d] - psi_s[:, None]) / model.k, axis=1)
     sat = np.where(
         si > 1e-9, "over-saturated", np.where(si < -1e-9, "under-saturated", "saturated")

@@ -215,7 +215,7 @@ def _water_region(dmap):
 
 
 def _best_point(region, k):
-    """Pole of inaccessibility with E scaled by 1/k (Garcia-Castellanos & Lombardo 2007, polylabel)."""
+    """Pole of inaccessibility (Garcia-Castellanos & Lombardo 2007) with E scaled by 1/k, via shapely's polylabel."""
     from shapely import affinity
     from shapely.ops import polylabel
 
@@ -354,8 +354,9 @@ def leach_window(
     Each element's solubility region is exact (see
     :func:`pourbaix.analyses.solubility.solubility_region`); the window is
     their intersection (shapely). The best point is the pole of
-    inaccessibility (Garcia-Castellanos & Lombardo 2007, as in shapely's
-    ``polylabel``) with potentials scaled by 1/k_T, so one pH unit of room
+    inaccessibility (Garcia-Castellanos & Lombardo 2007, Scott. Geogr. J.
+    123, 227; computed with shapely's ``polylabel``) with potentials scaled
+    by 1/k_T, so one pH unit of room
     weighs as much as k_T (59 mV at 25 °C) of potential room - the Nernst
     equivalence of a tenfold change in H+ activity.
 
