@@ -166,6 +166,10 @@ def cmd_map(a):
         from . import draw
 
         ax = draw.draw_map(dmap, reading=a.reading, second_reference=a.second_axis)
+        if a.solubility_lines is not None:
+            from .analyses.solubility import DEFAULT_LEVELS, add_solubility_lines
+
+            add_solubility_lines(ax, dmap, a.solubility_lines or DEFAULT_LEVELS)
         for o in figure_outs:
             draw.save_figure(ax, o)
     for o in outs:
@@ -328,6 +332,13 @@ def build_parser():
     m.add_argument("--out", action="append", required=True, metavar="FILE", help="output file; extension picks the kind (.png .svg .pdf .json .csv); repeatable")
     m.add_argument("--reading", action="store_true", help="shade the corrosion reading (immunity / passivation / corrosion)")
     m.add_argument("--second-axis", metavar="REFERENCE", help="add a right-hand potential axis vs another reference")
+    m.add_argument(
+        "--solubility-lines",
+        nargs="*",
+        type=_positive_float,
+        metavar="LEVEL",
+        help="draw iso-solubility lines of the total dissolved element [mol/kg] (default levels 1e-2 1e-4 1e-6 1e-8)",
+    )
     m.set_defaults(func=cmd_map, window=True)
 
     pr = sub.add_parser(
