@@ -908,6 +908,11 @@ def compute_map(
         table, elements, temperature_c, pressure_bar, water_activity, ionic_strength, background, activity_model, warn
     )
     ref_name, off0, off1 = _reference_frame(reference, ctx.temperature_c, warn)
+    if ionic > 0 and molality is None:
+        warn.append(
+            "dissolved species were set by activity, which the activity coefficients do not change; "
+            "give a molality to apply the model"
+        )
     chosen = _select_species(table, element, (), metastable, exclude, only)
     conditions = Conditions(
         elements=elements,
