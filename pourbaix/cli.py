@@ -146,13 +146,15 @@ def _fmt_margin(v, unit):
 # ------------------------------------------------------------------ commands
 def cmd_map(a):
     """Draw and/or export a map."""
-    outs = [Path(o) for o in a.out]
+    outs = [Path(o) for o in (a.out or [])]
+    if not outs and not a.report:
+        raise OptionError("give at least one --out FILE (or --report FILE)")
     for o in outs:
         if o.suffix.lower() not in _OUT_KINDS:
             raise OptionError(f"--out {o}: unknown file type {o.suffix or '(none)'}; use one of {', '.join(_OUT_KINDS)}")
     from .export import check_writable
 
-    for o in outs:
+    for o in outs + ([Path(a.report)] if a.report else []):
         check_writable(o)
     dmap = _compute(a)
     _print_warnings(dmap)
@@ -174,6 +176,10 @@ def cmd_map(a):
             draw.save_figure(ax, o)
     for o in outs:
         print(f"wrote {o}")
+    if a.report:
+        from .report import write_report_from_args
+
+        write_report_from_args(a, dmap)
     print(f"{len(dmap.domains)} domains: " + ", ".join(" + ".join(d.species) for d in dmap.domains))
     if dmap.never_stable:
         print("never stable in the window: " + ", ".join(dmap.never_stable))
@@ -329,7 +335,7 @@ def build_parser():
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )
     _add_conditions(m)
-    m.add_argument("--out", action="append", required=True, metavar="FILE", help="output file; extension picks the kind (.png .svg .pdf .json .csv); repeatable")
+    m.add_argument("--out", action="append", metavar="FILE", help="output file; extension picks the kind (.png .svg .pdf .json .csv); repeatable")
     m.add_argument("--reading", action="store_true", help="shade the corrosion reading (immunity / passivation / corrosion)")
     m.add_argument("--second-axis", metavar="REFERENCE", help="add a right-hand potential axis vs another reference")
     m.add_argument(
@@ -339,6 +345,9 @@ def build_parser():
         metavar="LEVEL",
         help="draw iso-solubility lines of the total dissolved element [mol/kg] (default levels 1e-2 1e-4 1e-6 1e-8)",
     )
+    from .report import add_report_option
+
+    add_report_option(m)
     m.set_defaults(func=cmd_map, window=True)
 
     pr = sub.add_parser(
