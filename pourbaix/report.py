@@ -1477,7 +1477,7 @@ def add_report_option(parser):
     )
 
 
-def write_report_from_args(args, dmap, extra=None):
+def write_report_from_args(args, dmap, extra=None, figure=None):
     """Write the report asked for with ``--report`` (does nothing without it).
 
     Parameters
@@ -1489,6 +1489,9 @@ def write_report_from_args(args, dmap, extra=None):
         The command's map.
     extra : object or sequence, optional
         Analysis result(s) to add (see :func:`write_report`, ``analyses``).
+    figure : matplotlib Figure or Axes, optional
+        The figure the command already drew (e.g. with its own options), used
+        as the report's main figure; None draws the map.
 
     Returns
     -------
@@ -1510,7 +1513,11 @@ def write_report_from_args(args, dmap, extra=None):
     else:
         analyses = [extra]
     out = write_report(
-        path, dmap, analyses=analyses, second_reference=getattr(args, "second_axis", None)
+        path,
+        dmap,
+        analyses=analyses,
+        figure=figure,
+        second_reference=getattr(args, "second_axis", None),
     )
     print(f"wrote {out}")
     return out

@@ -440,6 +440,18 @@ def test_cli_hook(fe60, tmp_path, capsys):
     assert write_report_from_args(a, fe60) == target
     assert "wrote" in capsys.readouterr().out
     assert "vs SHE" in target.read_text(encoding="utf-8")
+    # the command's own figure is used when given (and not closed: it belongs to the caller)
+    import matplotlib.pyplot as plt
+
+    from pourbaix.draw import draw_map
+
+    ax = draw_map(fe60, title="Figure given by the command")
+    write_report_from_args(a, fe60, figure=ax)
+    text = target.read_text(encoding="utf-8")
+    assert [t for t, _ in _parse(text).tags].count("svg") == 1
+    assert "".join("Figure given by the command".split()) in _parse(text).svg_texts
+    assert plt.fignum_exists(ax.figure.number)
+    plt.close(ax.figure)
 
 
 # ---------------------------------------------------------------------- a real browser
