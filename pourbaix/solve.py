@@ -16,6 +16,8 @@ scipy.spatial.HalfspaceIntersection). No grid is involved.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import lru_cache
+from itertools import combinations
 
 import numpy as np
 
@@ -109,11 +111,14 @@ def _dedupe(planes):
     coincident = {}
     scale = 1.0 + np.abs(planes).max(axis=1)
     order = np.lexsort(planes.T[::-1])
-    for a, b in zip(order[:-1], order[1:], strict=False):
-        if np.all(np.abs(planes[a] - planes[b]) <= 1e-12 * max(scale[a], scale[b])):
-            keep, drop = min(a, b), max(a, b)
-            root = coincident.get(keep, keep)
-            coincident[drop] = root
+    a_all, b_all = order[:-1], order[1:]
+    same = np.all(
+        np.abs(planes[a_all] - planes[b_all]) <= 1e-12 * np.maximum(scale[a_all], scale[b_all])[:, None], axis=1
+    )
+    for a, b in zip(a_all[same].tolist(), b_all[same].tolist(), strict=True):
+        keep, drop = min(a, b), max(a, b)
+        root = coincident.get(keep, keep)
+        coincident[drop] = root
     # resolve chains so every duplicate points at its first occurrence
     for j in sorted(coincident):
         i = coincident[j]
@@ -135,18 +140,23 @@ def _polygon_area(poly):
 
 
 def _unique_rows(points, tol):
+    """Sort points by (u, v) and drop each one within ``tol`` of an earlier kept point."""
     if len(points) < 2:
         return points
-    # sort by u then v; a point within tol of an earlier kept point is the same vertex
     order = np.lexsort((points[:, 1], points[:, 0]))
     pts = points[order]
+    # Only points in a run of sorted u-gaps <= tol can repeat one another.
+    close = np.flatnonzero(np.diff(pts[:, 0]) <= tol)
+    if len(close) == 0:
+        return pts
     keep = np.ones(len(pts), dtype=bool)
-    for a in range(len(pts)):
+    u, v = pts[:, 0].tolist(), pts[:, 1].tolist()
+    for a in np.unique(np.concatenate([close, close + 1])).tolist():
         if not keep[a]:
             continue
         b = a + 1
-        while b < len(pts) and pts[b, 0] - pts[a, 0] <= tol:
-            if keep[b] and abs(pts[b, 1] - pts[a, 1]) <= tol:
+        while b < len(u) and u[b] - u[a] <= tol:
+            if keep[b] and abs(v[b] - v[a]) <= tol:
                 keep[b] = False
             b += 1
     return pts[keep]
@@ -204,7 +214,7 @@ def lower_envelope(planes, window):
     norm = np.column_stack([a0, au, av])
 
     coincident = _dedupe(norm) if n > 1 else {}
-    active = np.array([i for i in range(n) if i not in coincident], dtype=int)
+    active = np.arange(n) if not coincident else np.array([i for i in range(n) if i not in coincident], dtype=int)
 
     polygons = [None] * n
     if len(active) == 1:
@@ -228,16 +238,8 @@ def lower_envelope(planes, window):
     member = vals <= env[:, None] + tol  # (M, K)
     _drop_near_coincident(member, A, tol, active, coincident)
 
-    for k, i in enumerate(active):
-        pts = uv[member[:, k]]
-        if len(pts) < 3:
-            continue
-        poly = _order_ccw(pts)
-        if _polygon_area(poly) <= _AREA_TOL:
-            continue
-        polygons[int(i)] = np.column_stack([x0 + dx * poly[:, 0], y0 + dy * poly[:, 1]])
-
-    edges = _edges(uv, member, active, polygons, planes, (x0, dx, y0, dy))
+    stable_cols = _faces(uv, member, active, polygons, (x0, dx, y0, dy))
+    edges = _edges(uv, member, active, stable_cols, planes, (x0, dx, y0, dy))
     return Envelope(polygons, edges, coincident, (x0, x1, y0, y1))
 
 
@@ -297,6 +299,10 @@ def _vertices_by_qhull(A):
     return verts[top, :2]
 
 
+_BOX = np.array([[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]])
+_BOX.setflags(write=False)
+
+
 def _vertices_by_enumeration(A):
     """Envelope vertices of a few planes by enumerating every candidate point.
 
@@ -308,30 +314,31 @@ def _vertices_by_enumeration(A):
     scipy.spatial import.
     """
     n = len(A)
-    cands = [np.array([[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]])]
-    owner = [np.zeros(4, dtype=int)]
-    ii, jj = np.triu_indices(n, 1)
+    cands = [_BOX]
+    owner = [np.zeros(4, dtype=np.intp)]
+    ii, jj = _pairs(n)
     d = A[ii] - A[jj]  # lines d0 + du u + dv v = 0
-    for fixed, val in ((0, 0.0), (0, 1.0), (1, 0.0), (1, 1.0)):
-        other = 2 if fixed == 0 else 1
-        coef = d[:, other]
-        ok = np.abs(coef) > 1e-15
-        t = -(d[ok, 0] + d[ok, 1 + fixed] * val) / coef[ok]
-        pts = np.empty((ok.sum(), 2))
-        pts[:, fixed] = val
-        pts[:, 1 - fixed] = t
-        cands.append(pts)
-        owner.append(ii[ok])
+    d0, du, dv = d[:, 0], d[:, 1], d[:, 2]
+    # Crossings of each pair's line with the four sides; a (near-)parallel side gives nan.
+    du = np.where(np.abs(du) > 1e-15, du, np.nan)
+    dv = np.where(np.abs(dv) > 1e-15, dv, np.nan)
+    zero, one = np.zeros_like(d0), np.ones_like(d0)
+    cands += [
+        np.column_stack([zero, -d0 / dv]),  # u = 0
+        np.column_stack([one, -(d0 + d[:, 1]) / dv]),  # u = 1
+        np.column_stack([-d0 / du, zero]),  # v = 0
+        np.column_stack([-(d0 + d[:, 2]) / du, one]),  # v = 1
+    ]
+    owner += [ii] * 4
     if n >= 3:
-        tri = np.array(list(_combinations3(n)))
-        i, j, k = tri[:, 0], tri[:, 1], tri[:, 2]
+        i, j, k = _triples(n)
         a1, a2 = A[i] - A[j], A[i] - A[k]
         det = a1[:, 1] * a2[:, 2] - a1[:, 2] * a2[:, 1]
-        ok = np.abs(det) > 1e-15
-        u = (-a1[ok, 0] * a2[ok, 2] + a2[ok, 0] * a1[ok, 2]) / det[ok]
-        v = (-a1[ok, 1] * a2[ok, 0] + a2[ok, 1] * a1[ok, 0]) / det[ok]
+        det = np.where(np.abs(det) > 1e-15, det, np.nan)
+        u = (-a1[:, 0] * a2[:, 2] + a2[:, 0] * a1[:, 2]) / det
+        v = (-a1[:, 1] * a2[:, 0] + a2[:, 1] * a1[:, 0]) / det
         cands.append(np.column_stack([u, v]))
-        owner.append(i[ok])
+        owner.append(i)
     pts = np.concatenate(cands)
     own = np.concatenate(owner)
     inside = np.all((pts >= -1e-12) & (pts <= 1 + 1e-12), axis=1)
@@ -344,70 +351,109 @@ def _vertices_by_enumeration(A):
     return pts[on | corner]
 
 
-def _combinations3(n):
-    for i in range(n):
-        for j in range(i + 1, n):
-            for k in range(j + 1, n):
-                yield (i, j, k)
+@lru_cache(maxsize=64)
+def _pairs(n):
+    """Index arrays (i, j), i < j < n, of every pair of planes (cached per n)."""
+    i, j = np.triu_indices(n, 1)
+    i.setflags(write=False)
+    j.setflags(write=False)
+    return i, j
 
 
-def _vertices_by_clipping(A):
-    """All vertices of the domains, by clipping the unit box with N-1 half planes each.
+@lru_cache(maxsize=64)
+def _triples(n):
+    """Index arrays (i, j, k), i < j < k < n, of every triple of planes (cached per n)."""
+    i, j, k = np.array(list(combinations(range(n), 3)), dtype=np.intp).reshape(-1, 3).T
+    for arr in (i, j, k):
+        arr.setflags(write=False)
+    return i, j, k
 
-    For a handful of planes this beats building the 3-D hull and needs no
-    scipy.spatial import; the vertices feed the same membership step as the
-    Qhull route, so both routes give identical domains.
+
+def _faces(uv, member, active, polygons, frame):
+    """Fill ``polygons`` with each plane's domain; return the local columns that have one.
+
+    A domain is convex, so its vertices ordered by angle about their mean
+    form its boundary counter-clockwise. All faces are ordered and measured
+    at once (shoelace area per group), which keeps the per-face cost to a
+    slice.
     """
-    box = np.array([[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]])
-    centre = A[:, 0] + 0.5 * A[:, 1] + 0.5 * A[:, 2]
-    order = np.argsort(centre)  # most competitive planes first: empty domains die early
-    out = [box]
-    for i in range(len(A)):
-        poly = box
-        for j in order:
-            if j == i:
-                continue
-            poly = _clip(poly, A[i] - A[j])
-            if poly is None:
-                break
-        if poly is not None:
-            out.append(poly)
-    return np.concatenate(out)
-
-
-def _edges(uv, member, active, polygons, planes, frame):
     x0, dx, y0, dy = frame
-    stable_cols = [k for k, i in enumerate(active) if polygons[int(i)] is not None]
+    counts = member.sum(axis=0)
+    cand = np.flatnonzero(counts >= 3)
+    if len(cand) == 0:
+        return []
+    col, vert = np.nonzero(member[:, cand].T)  # grouped by column, vertices in uv order
+    n_per = counts[cand]
+    starts = np.concatenate(([0], np.cumsum(n_per)[:-1]))
+    pts = uv[vert]
+    centre = np.add.reduceat(pts, starts, axis=0) / n_per[:, None]
+    ang = np.arctan2(pts[:, 1] - centre[col, 1], pts[:, 0] - centre[col, 0])
+    order = np.lexsort((ang, col))
+    pts = pts[order]
+    nxt = np.arange(1, len(pts) + 1)
+    nxt[starts + n_per - 1] = starts
+    cross = pts[:, 0] * pts[nxt, 1] - pts[:, 1] * pts[nxt, 0]
+    area = 0.5 * np.add.reduceat(cross, starts)
+    xy = np.column_stack([x0 + dx * pts[:, 0], y0 + dy * pts[:, 1]])
+    stable = []
+    for g in np.flatnonzero(area > _AREA_TOL).tolist():
+        k = int(cand[g])
+        polygons[int(active[k])] = xy[starts[g] : starts[g] + n_per[g]]
+        stable.append(k)
+    return stable
+
+
+def _edges(uv, member, active, stable_cols, planes, frame):
+    """Shared boundary segments between the stable domains, with their lines.
+
+    Two domains share an edge when they share two or more envelope vertices;
+    the segment runs between the extreme ones. ``uv`` is sorted by (u, v),
+    so for the usual two shared vertices the first and last are the ends.
+    """
+    x0, dx, y0, dy = frame
     edges = []
     if len(stable_cols) < 2:
         return edges
     sub = member[:, stable_cols]
-    for a in range(len(stable_cols)):
-        for b in range(a + 1, len(stable_cols)):
-            both = sub[:, a] & sub[:, b]
-            if both.sum() < 2:
-                continue
-            pts = uv[both]
-            i, j = int(active[stable_cols[a]]), int(active[stable_cols[b]])
-            xy = np.column_stack([x0 + dx * pts[:, 0], y0 + dy * pts[:, 1]])
-            # order the points along the segment and keep the two extremes
-            d = xy - xy[0]
-            direction = d[np.argmax(np.hypot(d[:, 0], d[:, 1]))]
-            t = d @ direction
-            p, q = xy[np.argmin(t)], xy[np.argmax(t)]
-            if np.hypot(*(q - p) / (dx, dy)) <= _VERTEX_TOL:
-                continue
-            if p[0] > q[0] or (p[0] == q[0] and p[1] > q[1]):
-                p, q = q, p
-            # Boundary line psi_i = psi_j: d0 + dph pH + de E = 0.
-            d0, dph, de = planes[i] - planes[j]
-            if abs(de) > 1e-14:
-                e0, slope, xv = -d0 / de, -dph / de, float("nan")
-            else:
-                e0, slope, xv = float("nan"), float("inf"), -d0 / dph
-            edges.append(
-                Edge((i, j), (float(p[0]), float(p[1])), (float(q[0]), float(q[1])), float(e0), float(slope), float(xv))
-            )
+    subi = sub.astype(np.int32)
+    shared = subi.T @ subi
+    ia, ib = _pairs(len(stable_cols))
+    keep = shared[ia, ib] >= 2
+    ia, ib = ia[keep], ib[keep]
+    if len(ia) == 0:
+        return edges
+    both = sub[:, ia] & sub[:, ib]  # (M, pairs)
+    first = both.argmax(axis=0)
+    last = len(uv) - 1 - both[::-1].argmax(axis=0)
+    p_uv, q_uv = uv[first], uv[last]
+    for c in np.flatnonzero(shared[ia, ib] > 2).tolist():
+        # three or more collinear shared vertices: take the extremes along the segment
+        pts = uv[both[:, c]]
+        d = pts - pts[0]
+        direction = d[np.argmax(np.hypot(d[:, 0], d[:, 1]))]
+        t = d @ direction
+        p_uv[c], q_uv[c] = pts[np.argmin(t)], pts[np.argmax(t)]
+    long_enough = np.hypot(*(q_uv - p_uv).T) > _VERTEX_TOL
+    p = np.column_stack([x0 + dx * p_uv[:, 0], y0 + dy * p_uv[:, 1]])
+    q = np.column_stack([x0 + dx * q_uv[:, 0], y0 + dy * q_uv[:, 1]])
+    swap = (p[:, 0] > q[:, 0]) | ((p[:, 0] == q[:, 0]) & (p[:, 1] > q[:, 1]))
+    p[swap], q[swap] = q[swap], p[swap].copy()
+    cols = np.asarray(stable_cols)
+    gi, gj = active[cols[ia]], active[cols[ib]]
+    # Boundary line psi_i = psi_j: d0 + dph pH + de E = 0.
+    d = planes[gi] - planes[gj]
+    vertical = np.abs(d[:, 2]) <= 1e-14
+    with np.errstate(divide="ignore", invalid="ignore"):
+        e0 = np.where(vertical, np.nan, -d[:, 0] / d[:, 2])
+        slope = np.where(vertical, np.inf, -d[:, 1] / d[:, 2])
+        xv = np.where(vertical, -d[:, 0] / d[:, 1], np.nan)
+    rows = zip(
+        gi.tolist(), gj.tolist(), p.tolist(), q.tolist(), e0.tolist(), slope.tolist(), xv.tolist(),
+        long_enough.tolist(), strict=True,
+    )
+    for i, j, pp, qq, e, s, x, ok in rows:
+        if ok:
+            edges.append(Edge((i, j), (pp[0], pp[1]), (qq[0], qq[1]), e, s, x))
     return edges
 
 
