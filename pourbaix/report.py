@@ -553,6 +553,25 @@ def analysis_sections(obj, dmap=None):
     return handler(obj, dmap)
 
 
+def _other_warnings(maps, dmap):
+    """Warnings of an analysis's own maps that the report's Warnings section (``dmap``'s) does not show.
+
+    Parameters
+    ----------
+    maps : iterable of (str, DomainMap)
+        A label for each map (e.g. "map B", "Fe map") and the map.
+    dmap : DomainMap or None
+        The report's map.
+    """
+    shown = set(getattr(dmap, "warnings", ()) or ())
+    out = []
+    for label, m in maps:
+        if m is dmap:
+            continue
+        out += [f"{label}: {text}" for text in getattr(m, "warnings", ()) if text not in shown]
+    return out
+
+
 def _window_sections(w, dmap):
     from .analyses.windows import draw_window
 
@@ -613,7 +632,13 @@ def _window_sections(w, dmap):
             ),
             rows=tuple(rows),
             columns=(("item", "Item"), ("value", "Value")),
-            notes=tuple([*(f"empty because: {r}" for r in w.reasons), *w.notes]),
+            notes=tuple(
+                [
+                    *(f"empty because: {r}" for r in w.reasons),
+                    *w.notes,
+                    *_other_warnings(((f"{el} map", m) for el, m in w.maps.items()), dmap),
+                ]
+            ),
             figure=ax,
             caption=f"{w.dissolve} leach window over the {w.dissolve} map; potentials vs {ref}.",
         )
@@ -825,6 +850,21 @@ def _comparison_sections(cmp, dmap):
                 "moved": moved,
             }
         )
+    notes = list(cmp.notes)
+    notes += _other_warnings((("map A", cmp.map_a), ("map B", cmp.map_b)), dmap)
+    ca, cb = cmp.map_a.conditions, cmp.map_b.conditions
+    # same test as pourbaix.draw.draw_overlay: one potential axis needs one electrode position
+    if (
+        abs(ca.reference_offset_v - cb.reference_offset_v) > 1e-9
+        or ca.reference_slope_v_per_ph != cb.reference_slope_v_per_ph
+    ):
+        figure = None
+        notes.append(
+            f"no overlay figure: the {ca.reference} electrode itself moves between {ca.temperature_c:g} and "
+            f"{cb.temperature_c:g} °C, so one potential axis cannot serve both maps (compare vs SHE to draw it)"
+        )
+    else:
+        figure = draw_comparison(cmp)
     return [
         Section(
             "Comparison of two maps",
@@ -838,8 +878,8 @@ def _comparison_sections(cmp, dmap):
                 ("b", "B"),
                 ("moved", "Moved"),
             ),
-            notes=tuple(cmp.notes),
-            figure=draw_comparison(cmp),
+            notes=tuple(notes),
+            figure=figure,
             caption=f"Boundaries of A ({cmp.label_a}) and B ({cmp.label_b}); potentials vs {cmp.reference}.",
         )
     ]

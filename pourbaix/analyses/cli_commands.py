@@ -72,6 +72,45 @@ def _write_text(path, text):
     print(f"wrote {path}")
 
 
+def _report_target(a):
+    """Check ``--report`` before any computation: its folder exists and is writable.
+
+    The extension (.html, .htm, .md) is already checked when the arguments are parsed.
+
+    Returns
+    -------
+    Path or None
+        The report's path, or None without ``--report``.
+    """
+    from ..errors import ExportError
+    from ..export import check_writable
+
+    if not getattr(a, "report", None):
+        return None
+    p = Path(a.report)
+    try:
+        check_writable(p)
+    except ExportError as exc:
+        raise OptionError(f"--report: {exc}") from None
+    return p
+
+
+def _report(a, dmap, extra, figure=None):
+    """Write the report asked for with ``--report`` (map, analysis sections, cautions).
+
+    Under ``--json`` the "wrote" line goes to stderr so that stdout stays one JSON document.
+    """
+    if not getattr(a, "report", None):
+        return None
+    import contextlib
+
+    from ..report import write_report_from_args
+
+    quiet = contextlib.redirect_stdout(sys.stderr) if a.json else contextlib.nullcontext()
+    with quiet:
+        return write_report_from_args(a, dmap, extra=extra, figure=figure)
+
+
 def _csv_text(rows):
     if not rows:
         return ""
@@ -138,6 +177,7 @@ def _cmd_solubility(a, map_kwargs):
         )
     outs = _outputs(a.out, (*_FIGURES, ".csv", ".json"))
     map_outs = _outputs(a.map_out, _FIGURES, "--map-out")
+    report = _report_target(a)
     kwargs = map_kwargs(a)
     kwargs["ph_range"] = (min(lo, -2.0), max(hi, 16.0))
     dmap = compute_map(element, **kwargs)
@@ -151,6 +191,11 @@ def _cmd_solubility(a, map_kwargs):
     )
     ref = dmap.conditions.reference
     rows = res.rows()
+    where = (
+        f"E = {a.potential:+.3f} V vs {ref}"
+        if a.along is None
+        else f"along the {a.along} water line (1 bar), vs {ref}"
+    )
     if a.json:
         print(
             json.dumps(
@@ -171,11 +216,6 @@ def _cmd_solubility(a, map_kwargs):
             )
         )
     else:
-        where = (
-            f"E = {a.potential:+.3f} V vs {ref}"
-            if a.along is None
-            else f"along the {a.along} water line (1 bar), vs {ref}"
-        )
         c = dmap.conditions
         print(
             f"Solubility of {element} at {c.temperature_c:g} °C, {where}: total dissolved {element} in equilibrium "
@@ -219,12 +259,35 @@ def _cmd_solubility(a, map_kwargs):
             ),
             figs,
         )
-    if map_outs:
+    levels = a.levels or DEFAULT_LEVELS
+    if map_outs or report:
         from .. import draw
 
-        ax = draw.draw_map(dmap)
-        add_solubility_lines(ax, dmap, a.levels or DEFAULT_LEVELS, basis=a.basis)
-        _save(ax, map_outs)
+        # one drawing of the map with its iso-solubility lines serves --map-out and the report
+        map_ax = draw.draw_map(dmap)
+        add_solubility_lines(map_ax, dmap, levels, basis=a.basis)
+        _save(map_ax, map_outs)
+        if report:
+            summary = (
+                f"Lowest total dissolved {element} between pH {lo:g} and {hi:g}, {where}: pH {ph_min:.2f}, "
+                f"S = {float(at_min.total_molality):.3g} mol/kg (solid {at_min.solid}, mainly {at_min.dominant}).",
+                "Iso-solubility lines on the map ("
+                + ("total dissolved" if a.basis == "total" else "each dissolved species on its own")
+                + "): "
+                + ", ".join(f"{v:g}" for v in levels)
+                + " mol/kg.",
+            )
+            try:
+                _report(
+                    a,
+                    dmap,
+                    [res, ("Solubility minimum and iso-solubility lines", "\n\n".join(summary))],
+                    figure=map_ax,
+                )
+            finally:
+                import matplotlib.pyplot as plt
+
+                plt.close(map_ax.figure)
     return 0
 
 
@@ -234,6 +297,7 @@ def _cmd_window(a, map_kwargs):
 
     target = _one_element(a, "window")
     outs = _outputs(a.out, (*_FIGURES, ".json"))
+    _report_target(a)
     kwargs = map_kwargs(a)
     w = leach_window(
         target,
@@ -258,6 +322,7 @@ def _cmd_window(a, map_kwargs):
     figs = [o for o in outs if o.suffix.lower() in _FIGURES]
     if figs:
         _save(draw_window(w), figs)
+    _report(a, w.maps[w.dissolve], w)
     return 0
 
 
@@ -267,6 +332,7 @@ def _cmd_field(a, map_kwargs):
     from .field import _table_lines, draw_field, place_readings, read_field_csv
 
     outs = _outputs(a.out, (*_FIGURES, ".json", ".csv"))
+    _report_target(a)
     data = read_field_csv(a.readings)
     for p in data.problems:
         print(
@@ -333,19 +399,28 @@ def _cmd_field(a, map_kwargs):
     figs = [o for o in outs if o.suffix.lower() in _FIGURES]
     if figs:
         _save(draw_field(dmap, data), figs)
+    _report(a, dmap, data)
     return 0
 
 
 # ------------------------------------------------------------------ reading
 def _cmd_reading(a, map_kwargs):
+    from ..domain_map import compute_map
+    from ..electrodes import get_reference
     from .reading import corrosion_reading
 
     element = _one_element(a, "reading")
+    _report_target(a)
     kwargs = map_kwargs(a)
-    ref = kwargs.pop("reference")
-    r = corrosion_reading(element, a.ph, a.potential, ref, **kwargs)
+    # the map is vs the electrode of the measurement, as corrosion_reading(element, ...) builds it;
+    # computed here once so that the report shows the same map
+    ref = get_reference(kwargs.pop("reference")).name
+    dmap = compute_map(element, reference=ref, **kwargs)
+    _notes(dmap)
+    r = corrosion_reading(dmap, a.ph, a.potential, ref)
     if a.json:
         print(json.dumps(r.to_dict(), indent=2, ensure_ascii=False))
+        _report(a, dmap, r)
         return 0
     print(
         f"{element} at pH {r.ph:g}, E = {r.potential_v:+.3f} V vs {r.reference} ({r.potential_v_she:+.3f} V vs SHE), {r.temperature_c:g} °C"
@@ -370,6 +445,7 @@ def _cmd_reading(a, map_kwargs):
         )
     for text in r.cautions:
         print(f"  caution: {text}")
+    _report(a, dmap, r)
     return 0
 
 
@@ -380,6 +456,7 @@ def _cmd_compare(a, map_kwargs):
     from .compare import _table_lines, compare_maps, draw_comparison
 
     outs = _outputs(a.out, (*_FIGURES, ".json", ".csv"))
+    _report_target(a)
     base = map_kwargs(a)
     other = dict(base)
     changed = []
@@ -459,6 +536,7 @@ def _cmd_compare(a, map_kwargs):
     figs = [o for o in outs if o.suffix.lower() in _FIGURES]
     if figs:
         _save(draw_comparison(cmp), figs)
+    _report(a, map_a, cmp)
     return 0
 
 
@@ -475,6 +553,7 @@ def register(sub, add_conditions, map_kwargs):
     map_kwargs : callable
         ``map_kwargs(args)`` turns them into keyword arguments of ``compute_map``.
     """
+    from ..report import add_report_option
     from .solubility import DEFAULT_LEVELS
 
     p = _parser(
@@ -538,6 +617,7 @@ def register(sub, add_conditions, map_kwargs):
         help="lines of the total (default) or of each dissolved species on its own",
     )
     p.add_argument("--json", action="store_true", help="print JSON")
+    add_report_option(p)
     p.set_defaults(func=lambda a: _cmd_solubility(a, map_kwargs), window=False)
 
     w = _parser(
@@ -590,6 +670,7 @@ def register(sub, add_conditions, map_kwargs):
         help="figure (.png/.svg/.pdf) or .json; repeatable",
     )
     w.add_argument("--json", action="store_true", help="print JSON")
+    add_report_option(w)
     w.set_defaults(func=lambda a: _cmd_window(a, map_kwargs), window=True)
 
     f = _parser(
@@ -611,6 +692,7 @@ def register(sub, add_conditions, map_kwargs):
         help="figure (.png/.svg/.pdf), .csv or .json; repeatable",
     )
     f.add_argument("--json", action="store_true", help="print JSON")
+    add_report_option(f)
     f.set_defaults(func=lambda a: _cmd_field(a, map_kwargs), window=True)
 
     r = _parser(
@@ -632,6 +714,7 @@ def register(sub, add_conditions, map_kwargs):
         help="measured potential [V vs --reference]",
     )
     r.add_argument("--json", action="store_true", help="print JSON")
+    add_report_option(r)
     r.set_defaults(func=lambda a: _cmd_reading(a, map_kwargs), window=False)
 
     c = _parser(
@@ -674,4 +757,5 @@ def register(sub, add_conditions, map_kwargs):
         help="overlay figure (.png/.svg/.pdf), .csv or .json; repeatable",
     )
     c.add_argument("--json", action="store_true", help="print JSON")
+    add_report_option(c)
     c.set_defaults(func=lambda a: _cmd_compare(a, map_kwargs), window=True)
