@@ -163,6 +163,16 @@ class Species:
 
     @property
     def label(self) -> str:
+        """Typeset label with Unicode sub- and superscripts, the form in brackets.
+
+        E.g. ``"Fe(OH)₂⁺"``, ``"Fe₂O₃ (maghemite)"``. Figures use these (no
+        mathtext parse, so drawing stays fast; DejaVu Sans has the glyphs).
+        """
+        text = self.formula.plain()
+        return f"{text} ({self.form})" if self.form else text
+
+    @property
+    def mathtext(self) -> str:
         """Matplotlib mathtext label; a form is shown as a small subscript."""
         text = self.formula.mathtext()
         if self.form:

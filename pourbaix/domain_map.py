@@ -118,7 +118,7 @@ class Entry:
     state : str
         ``immunity``, ``passivation`` or ``corrosion`` for the principal element.
     label : str
-        Typeset (mathtext) label.
+        Typeset label (Unicode sub- and superscripts).
     metal_states : dict
         State per metal (several-metal maps).
     """
@@ -600,7 +600,9 @@ def species_id(sp):
 
 
 def species_label(sp):
-    """Mathtext label of a species, with "(aq)" for neutral dissolved species.
+    """Typeset (Unicode) label of a species, with "(aq)" for neutral dissolved species.
+
+    E.g. ``"Fe²⁺"``, ``"Zn(OH)₂(aq)"``, ``"Fe₂O₃ (maghemite)"``.
 
     Parameters
     ----------
@@ -611,10 +613,10 @@ def species_label(sp):
     -------
     str
     """
-    label = sp.label
+    label = sp.formula.plain()
     if sp.phase == "aq" and sp.charge == 0:
-        label = label[:-1] + r"_{\mathrm{(aq)}}$"
-    return label
+        label += "(aq)"
+    return f"{label} ({sp.form})" if sp.form else label
 
 
 def _state_of(sp, element):

@@ -26,6 +26,7 @@ from pathlib import Path
 import numpy as np
 
 from .errors import ConditionsError, OptionError
+from .formula import _TO_SUPER
 
 __all__ = ["draw_map", "draw_overlay", "draw_points", "save_figure", "PALETTES", "FIGURE_SIZE_IN"]
 
@@ -135,21 +136,22 @@ def _palette(name):
 
 # ------------------------------------------------------------------ text
 def _sci(x):
-    """Format a number as mathtext: 1e-06 -> 10^{-6}, 2.5e-05 -> 2.5 x 10^{-5}, 0.5 -> 0.5."""
+    """Format a number with a Unicode power of ten: 1e-06 -> 10⁻⁶, 2.5e-05 -> 2.5×10⁻⁵, 0.5 -> 0.5."""
     x = float(x)
     if x == 0 or (1e-2 <= abs(x) < 1e4):
         return f"{x:g}"
     exp = math.floor(math.log10(abs(x)))
     mant = x / 10**exp
+    power = "10" + str(exp).translate(_TO_SUPER)
     if abs(mant - round(mant)) < 1e-9 and round(mant) == 1:
-        return f"$10^{{{exp}}}$"
-    return f"${mant:.3g}\\times10^{{{exp}}}$"
+        return power
+    return f"{mant:.3g}×{power}"
 
 
 def _system_text(c):
     els = "–".join(c.elements)
     lig = "".join(f"–{k}" for k in (c.ligands or {}))
-    text = f"{els}{lig}–H$_2$O"
+    text = f"{els}{lig}–H₂O"
     if c.ratio is not None and len(c.elements) > 1:
         text += " (" + ":".join(f"{r:g}" for r in c.ratio) + ")"
     return text
@@ -275,7 +277,7 @@ class _Placer:
     def crosses_lines(self, box, clearance_pt=3.0):
         c = clearance_pt * self.px_per_pt
         grown = (box[0] - c, box[1] - c, box[2] + c, box[3] + c)
-        return any(_segment_hits_box(a, b, grown) for a, b in self.lines)
+        return bool(_segments_hit_boxes(self.lines, [grown])[0])
 
     def measure(self, text):
         """Width, height and centre offset of a text artist's box [px]."""
@@ -349,6 +351,39 @@ def _segment_hits_box(p, q, box):
     return True
 
 
+def _segments_hit_boxes(segments, boxes):
+    """For each box, whether any segment crosses it (Liang-Barsky, vectorised).
+
+    Parameters
+    ----------
+    segments : sequence of ((x, y), (x, y))
+        Segment end points [px].
+    boxes : array_like, shape (K, 4)
+        ``(x0, y0, x1, y1)`` per box [px].
+
+    Returns
+    -------
+    ndarray of bool, shape (K,)
+    """
+    boxes = np.atleast_2d(np.asarray(boxes, dtype=float))
+    if len(segments) == 0:
+        return np.zeros(len(boxes), dtype=bool)
+    s = np.asarray(segments, dtype=float).reshape(-1, 4)
+    x0, y0 = s[:, 0], s[:, 1]  # (S,)
+    dx, dy = s[:, 2] - x0, s[:, 3] - y0
+    bx0, by0, bx1, by1 = (boxes[:, k : k + 1] for k in range(4))  # (K, 1)
+    # the four clipping conditions p_k t <= q_k, each broadcast to (K, S)
+    shape = (len(boxes), len(s))
+    pk = np.stack([np.broadcast_to(v, shape) for v in (-dx, dx, -dy, dy)])
+    qk = np.stack([np.broadcast_to(v, shape) for v in (x0 - bx0, bx1 - x0, y0 - by0, by1 - y0)])
+    parallel_out = np.any((pk == 0) & (qk < 0), axis=0)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        r = qk / pk
+    t0 = np.max(np.where(pk < 0, r, 0.0), axis=0)
+    t1 = np.min(np.where(pk > 0, r, 1.0), axis=0)
+    return np.any(~parallel_out & (t0 <= t1), axis=1)
+
+
 def _segments_cross(p, q, a, b):
     """Whether segments p-q and a-b properly intersect (orientation test)."""
 
@@ -409,15 +444,7 @@ def _fit_inside(placer, poly_px, w, h, soft_lines=()):
     score = room - 0.15 * near
     if soft_lines:
         c = 1.5 * placer.px_per_pt
-        crossed = np.array(
-            [
-                any(
-                    _segment_hits_box(a, b_, (bx[0] - c, bx[1] - c, bx[2] + c, bx[3] + c))
-                    for a, b_ in soft_lines
-                )
-                for bx in boxes[k]
-            ]
-        )
+        crossed = _segments_hit_boxes(soft_lines, boxes[k] + np.array([-c, -c, c, c]))
         if not crossed.all():
             score = np.where(crossed, -np.inf, score)
     return tuple(centres[k[int(np.argmax(score))]])
@@ -1239,7 +1266,7 @@ def draw_map(
     if neutral is not None:
         placer.add_lines([((neutral, c.potential_range_v[0]), (neutral, c.potential_range_v[1]))])
     if water:
-        texts = {"oxygen": r"$\mathrm{O_2/H_2O}$", "hydrogen": r"$\mathrm{H_2O/H_2}$"}
+        texts = {"oxygen": "O₂/H₂O", "hydrogen": "H₂O/H₂"}
         for key, above in (("oxygen", True), ("hydrogen", False)):
             if key in dmap.water:
                 e0, s = dmap.water[key]
@@ -1374,7 +1401,7 @@ def draw_overlay(maps, ax=None, *, labels=None, caption=True):
     >>> from pourbaix import compute_sweep
     >>> ax = draw_overlay(compute_sweep("Zn", activities=[1e-6, 1e-4]))
     >>> [t.get_text() for t in ax.get_legend().get_texts()]
-    ['activity $10^{-6}$', 'activity $10^{-4}$']
+    ['activity 10⁻⁶', 'activity 10⁻⁴']
     """
     maps = list(maps)
     if not 1 <= len(maps) <= len(_OVERLAY_STYLES):
@@ -1450,7 +1477,7 @@ def draw_overlay(maps, ax=None, *, labels=None, caption=True):
     )
     if one_water:
         placer.add_lines([(b.start, b.end) for m in maps for b in m.boundaries])
-        texts = {"oxygen": r"$\mathrm{O_2/H_2O}$", "hydrogen": r"$\mathrm{H_2O/H_2}$"}
+        texts = {"oxygen": "O₂/H₂O", "hydrogen": "H₂O/H₂"}
         for key, above in (("oxygen", True), ("hydrogen", False)):
             if key in first.water:
                 e0, sl = first.water[key]

@@ -151,7 +151,10 @@ def _unique_rows(points, tol):
         return pts
     keep = np.ones(len(pts), dtype=bool)
     u, v = pts[:, 0].tolist(), pts[:, 1].tolist()
-    for a in np.unique(np.concatenate([close, close + 1])).tolist():
+    in_run = np.zeros(len(u), dtype=bool)
+    in_run[close] = True
+    in_run[close + 1] = True
+    for a in np.flatnonzero(in_run).tolist():
         if not keep[a]:
             continue
         b = a + 1

@@ -192,7 +192,8 @@ def test_sound_file_reads(tmp_path):
     assert mag.note == "a note, with a comma"
     assert mag.key == ("Fe2O3:maghemite", "s")
     assert rows[1].dgf_kj_mol == -78.9 and rows[1].charge == 2
-    assert mag.label.endswith(r"_{\mathrm{(maghemite)}}$")
+    assert mag.label == "Fe₂O₃ (maghemite)"
+    assert mag.mathtext.endswith(r"_{\mathrm{(maghemite)}}$")
 
 
 # ------------------------------------------------------------------ the embedded tables

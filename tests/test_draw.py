@@ -303,8 +303,8 @@ def test_water_lines_follow_the_map(maps):
         assert (y[1] - y[0]) / (x[1] - x[0]) == pytest.approx(-0.05916, abs=1e-5)
         assert lines[f"pourbaix-water:{key}"].get_linestyle() in ("--", ":", "-.")
     texts = {t.get_gid(): t.get_text() for t in label_texts(ax, "water")}
-    assert "O_2/H_2O" in texts["pourbaix-label:water:oxygen"]
-    assert "H_2O/H_2" in texts["pourbaix-label:water:hydrogen"]
+    assert texts["pourbaix-label:water:oxygen"] == "O₂/H₂O"
+    assert texts["pourbaix-label:water:hydrogen"] == "H₂O/H₂"
     neutral = [ln for ln in ax.lines if ln.get_gid() == "pourbaix-neutral"]
     assert len(neutral) == 1
     assert neutral[0].get_xdata()[0] == pytest.approx(
@@ -334,7 +334,7 @@ def test_caption_states_conditions(maps):
         "Fe",
         "25 °C",
         "bar",
-        "activity $10^{-6}$",
+        "activity 10⁻⁶",
         "data set: default",
         "vs SHE",
         "I = 0",
@@ -473,7 +473,7 @@ def test_overlay_of_activities_and_given_labels(maps):
     sweep = pourbaix.compute_sweep("Zn", activities=[1e-6, 1e-4])
     ax = draw.draw_overlay(sweep)
     texts = [t.get_text() for t in ax.get_legend().get_texts()]
-    assert texts == ["activity $10^{-6}$", "activity $10^{-4}$"]
+    assert texts == ["activity 10⁻⁶", "activity 10⁻⁴"]
     fig, ax2 = plt.subplots()
     assert draw.draw_overlay(sweep, ax=ax2, labels=["dilute", "concentrated"]) is ax2
     assert [t.get_text() for t in ax2.get_legend().get_texts()] == ["dilute", "concentrated"]
@@ -652,3 +652,23 @@ def test_simple_maps_keep_labels_and_no_key(maps, element):
     assert label_texts(ax, "number") == []
     assert not [t for t in ax.texts if str(t.get_gid()).startswith("pourbaix-key")]
     assert tuple(ax.figure.get_size_inches()) == pytest.approx(draw.FIGURE_SIZE_IN)
+
+
+def test_segment_box_crossing_matches_shapely():
+    # Reference: shapely's exact LineString/box intersection (GEOS), on random segments and
+    # boxes including horizontal and vertical segments (the parallel cases of Liang-Barsky).
+    import shapely
+
+    rng = np.random.default_rng(11)
+    segs = rng.uniform(0, 100, (60, 2, 2))
+    segs[:10, 1, 1] = segs[:10, 0, 1]  # horizontal
+    segs[10:20, 1, 0] = segs[10:20, 0, 0]  # vertical
+    lo = rng.uniform(0, 90, (200, 2))
+    boxes = np.column_stack([lo, lo + rng.uniform(1, 15, (200, 2))])
+    got = draw._segments_hit_boxes([tuple(map(tuple, s)) for s in segs], boxes)
+    lines = shapely.linestrings(segs)
+    for k, b in enumerate(boxes):
+        want = bool(shapely.intersects(lines, shapely.box(*b)).any())
+        assert got[k] == want, (k, b)
+        assert want == any(draw._segment_hits_box(s[0], s[1], b) for s in segs)
+    assert not draw._segments_hit_boxes([], boxes).any()

@@ -128,7 +128,8 @@ def test_mathtext_and_plain_for_every_embedded_species():
                 continue
             seen.add(sp.key)
             parser.parse(sp.formula.mathtext())  # raises ValueError on bad mathtext
-            parser.parse(sp.label)
+            parser.parse(sp.mathtext)
+            assert "$" not in sp.label and sp.label.startswith(sp.formula.plain()), sp.name
             again = parse_formula(sp.formula.plain())
             assert (again.text, again.charge) == (sp.formula.text, sp.charge), sp.name
     assert seen, "no embedded species found"

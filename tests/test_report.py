@@ -505,10 +505,12 @@ def test_report_in_headless_chromium(tmp_path):
     tree = _parse(dom.stdout)
     assert "svg" in [t for t, _ in tree.tags], "no <svg> element in the rendered page"
 
-    # Each label is real SVG text; typeset labels come as one glyph per <tspan> (sub- and
-    # superscripts after the body), so compare the glyphs of each <text> as a multiset.
+    # Each label is real SVG text, typeset with Unicode sub- and superscripts (Cu₂O, Cu²⁺);
+    # compare the glyphs of each <text>, read as plain digits and signs, as a multiset.
+    plain = str.maketrans("₀₁₂₃₄₅₆₇₈₉⁰¹²³⁴⁵⁶⁷⁸⁹⁺⁻−", "0123456789" "0123456789" "+--")
+
     def glyphs(s):
-        return "".join(sorted(s.replace("−", "-")))
+        return "".join(sorted(s.translate(plain)))
 
     labels = {glyphs(t) for t in tree.svg_texts}
     # The classical copper map at 1e-6: Cu, Cu2O, CuO and Cu2+ domains (Pourbaix 1974, copper; from memory).

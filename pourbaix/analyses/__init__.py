@@ -6,35 +6,43 @@ computes one from an element and the keyword conditions of
 only when called.
 """
 
-from .compare import BoundaryShift, MapComparison, compare_maps, draw_comparison
-from .field import (
-    FieldData,
-    FieldProblem,
-    FieldReading,
-    draw_field,
-    field_readings,
-    place_readings,
-    read_field_csv,
-)
-from .reading import (
-    CP_CRITERION_V,
-    CP_REFERENCE,
-    CorrosionReading,
-    corrosion_reading,
-    immunity_potential,
-)
-from .solubility import (
-    DEFAULT_LEVELS,
-    SolubilityResult,
-    add_solubility_lines,
-    draw_solubility_curve,
-    solubility,
-    solubility_curve,
-    solubility_lines,
-    solubility_minimum,
-    solubility_region,
-)
-from .windows import LeachWindow, draw_window, leach_window
+import importlib
+
+# ``solubility`` names both a submodule and its main function; bind the function now,
+# before any other import of the submodule can leave the module under that name.
+from .solubility import solubility
+
+# Each public name and the submodule that defines it; submodules load on first use so
+# the command line (which only registers the analysis commands) stays quick to start.
+_WHERE = {
+    "BoundaryShift": "compare",
+    "CP_CRITERION_V": "reading",
+    "CP_REFERENCE": "reading",
+    "CorrosionReading": "reading",
+    "DEFAULT_LEVELS": "solubility",
+    "FieldData": "field",
+    "FieldProblem": "field",
+    "FieldReading": "field",
+    "LeachWindow": "windows",
+    "MapComparison": "compare",
+    "SolubilityResult": "solubility",
+    "add_solubility_lines": "solubility",
+    "compare_maps": "compare",
+    "corrosion_reading": "reading",
+    "draw_comparison": "compare",
+    "draw_field": "field",
+    "draw_solubility_curve": "solubility",
+    "draw_window": "windows",
+    "field_readings": "field",
+    "immunity_potential": "reading",
+    "leach_window": "windows",
+    "place_readings": "field",
+    "read_field_csv": "field",
+    "solubility_curve": "solubility",
+    "solubility_lines": "solubility",
+    "solubility_minimum": "solubility",
+    "solubility_region": "solubility",
+}
 
 __all__ = [
     "BoundaryShift",
@@ -66,3 +74,17 @@ __all__ = [
     "solubility_minimum",
     "solubility_region",
 ]
+
+
+def __getattr__(name):
+    try:
+        module = _WHERE[name]
+    except KeyError:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}") from None
+    value = getattr(importlib.import_module(f".{module}", __name__), name)
+    globals()[name] = value
+    return value
+
+
+def __dir__():
+    return sorted(set(globals()) | set(_WHERE))

@@ -30,6 +30,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..errors import ConditionsError, OptionError
+from ..formula import _TO_SUPER
 
 __all__ = [
     "DEFAULT_LEVELS",
@@ -61,7 +62,7 @@ class _Model:
 
     element: str
     names: tuple
-    labels: tuple  # mathtext labels
+    labels: tuple  # typeset (Unicode) labels
     x: np.ndarray  # atoms of the element per formula unit
     dissolved: np.ndarray  # bool
     solid: np.ndarray  # bool (solids and liquids)
@@ -252,7 +253,7 @@ class SolubilityResult:
     species : tuple of str
         The dissolved species, in the order of ``species_molality``'s last axis.
     species_labels : tuple of str
-        Their typeset (mathtext) labels.
+        Their typeset (Unicode) labels.
     species_molality : ndarray
         Molality of each dissolved species, shape (..., len(species)) [mol/kg].
     ligand : ndarray of str
@@ -1027,7 +1028,7 @@ def solubility_lines(dmap, levels=DEFAULT_LEVELS, *, basis="total", tolerance=DE
 def _level_text(v):
     e = math.log10(v)
     if abs(e - round(e)) < 1e-9:
-        return f"$10^{{{int(round(e))}}}$"
+        return "10" + str(int(round(e))).translate(_TO_SUPER)
     return f"{v:.2g}"
 
 
@@ -1170,7 +1171,7 @@ def draw_solubility_curve(result, ax=None, *, label=None, title=None):
     ax.set_ylim(bottom, top)
     ax.set_xlim(float(x.min()), float(x.max()))
     ax.set_xlabel("pH")
-    ax.set_ylabel(f"log$_{{10}}$ dissolved {result.element} [mol/kg]")
+    ax.set_ylabel(f"log₁₀ dissolved {result.element} [mol/kg]")
     ax.grid(True, lw=0.4, color="#dddddd")
     if title is None:
         e = np.ravel(result.potential_v)
