@@ -158,7 +158,7 @@ def main():
     p.add_argument("--repeat", type=int, default=15)
     a = p.parse_args()
     bench_systems(a.repeat)
-    bench_command(max(3, a.repeat // 3))
+    bench_command(max(11, a.repeat // 2))
 
 
 if __name__ == "__main__":
