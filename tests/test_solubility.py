@@ -7,6 +7,7 @@ import pytest
 import shapely
 
 from pourbaix.analyses.solubility import (
+    solid_onset,
     solubility,
     solubility_curve,
     solubility_lines,
@@ -217,3 +218,38 @@ def test_curve_along_the_oxygen_line(zn):
     # O2/H2O: E = 1.229 - 0.05916 pH vs SHE at 25 °C (Bard & Faulkner 2001; textbook line)
     assert np.allclose(r.potential_v, 1.229 - 0.05916 * ph, atol=1e-3)
     assert np.allclose(r.potential_v, e0 + slope * ph)
+
+
+def test_zinc_oxide_shows_from_the_activity_of_its_neutral_complex():
+    """ZnO + H2O = Zn(OH)2(aq): the least-soluble compound's field needs a_set >= K.
+
+    By hand from the table ΔfG° values (mass action): log K = -ΔrG / (RT ln10).
+    Baes & Mesmer (1976) give log *Ks0(ZnO) = 11.15 and log *beta2 = -16.9, so
+    log K = -5.75 (from memory): the tables and that source agree to 0.02.
+    """
+    t = load_species()
+    d_rg = t.get("Zn(OH)2", "aq").dgf_kj_mol - t.get("ZnO", "s").dgf_kj_mol - t.get("H2O", "l").dgf_kj_mol
+    log_k = -d_rg / RT_LN10_KJ
+    assert log_k == pytest.approx(11.15 - 16.9, abs=0.02)  # Baes & Mesmer 1976, from memory
+    onset = solid_onset(compute_map("Zn", activity=1e-6))
+    assert onset.solid == "ZnO" and onset.dominant == "Zn(OH)2(aq)" and not onset.shown
+    assert math.log10(onset.activity) == pytest.approx(log_k, abs=1e-6)
+    # the flat band: where Zn(OH)2(aq) is the largest species over ZnO. With the Baes & Mesmer
+    # constants Zn2+ equals it at pH 16.9/2 = 8.45 and Zn(OH)3- at pH 28.4 - 16.9 = 11.5;
+    # the search grid has 0.075 pH steps
+    lo, hi = onset.ph_range
+    assert lo == pytest.approx(8.45, abs=0.1) and hi == pytest.approx(11.5, abs=0.1)
+    # the maps agree: just above that activity a ZnO field exists, just below it does not
+    above = compute_map("Zn", activity=10 ** (log_k + 0.05))
+    below = compute_map("Zn", activity=10 ** (log_k - 0.05))
+    assert "ZnO" in [d.species[0] for d in above.domains]
+    assert "ZnO" not in [d.species[0] for d in below.domains]
+    assert solid_onset(above).shown
+
+
+def test_onset_is_none_without_a_solid_compound_and_shown_for_iron():
+    # iron at 1e-6 shows its oxides (Pourbaix 1974, iron; common practice)
+    assert solid_onset(compute_map("Fe", activity=1e-6)).shown
+    # a map whose only solid is the metal (all compounds excluded) has no compound to show
+    m = compute_map("Zn", activity=1e-6, exclude=["ZnO", "Zn(OH)2(s)"])
+    assert solid_onset(m) is None

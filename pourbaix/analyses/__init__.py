@@ -25,6 +25,7 @@ _WHERE = {
     "FieldReading": "field",
     "LeachWindow": "windows",
     "MapComparison": "compare",
+    "SolidOnset": "solubility",
     "SolubilityResult": "solubility",
     "add_solubility_lines": "solubility",
     "compare_maps": "compare",
@@ -41,6 +42,7 @@ _WHERE = {
     "solubility_curve": "solubility",
     "solubility_lines": "solubility",
     "solubility_minimum": "solubility",
+    "solid_onset": "solubility",
     "solubility_region": "solubility",
 }
 
@@ -55,6 +57,7 @@ __all__ = [
     "FieldReading",
     "LeachWindow",
     "MapComparison",
+    "SolidOnset",
     "SolubilityResult",
     "add_solubility_lines",
     "compare_maps",
@@ -72,6 +75,7 @@ __all__ = [
     "solubility_curve",
     "solubility_lines",
     "solubility_minimum",
+    "solid_onset",
     "solubility_region",
 ]
 

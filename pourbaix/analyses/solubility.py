@@ -38,6 +38,8 @@ __all__ = [
     "solubility",
     "solubility_curve",
     "solubility_minimum",
+    "SolidOnset",
+    "solid_onset",
     "solubility_region",
     "solubility_lines",
     "add_solubility_lines",
@@ -548,6 +550,109 @@ def solubility_minimum(dmap, potential_v=None, along=None, ph_range=None):
             best = float(res.x)
     px, py = _along_line(dmap, np.array(best), potential_v, along)
     return float(best), _evaluate(model, dmap, px, py)
+
+
+@dataclass(frozen=True)
+class SolidOnset:
+    """The lowest dissolved activity at which a solid compound of the element shows on the map.
+
+    Attributes
+    ----------
+    solid : str
+        Species id of the compound (oxide, hydroxide, sulfide ...).
+    activity : float
+        Set activity of each dissolved species at which its field appears
+        (a molality when the map was set by molality) [-].
+    ph : float
+        A pH where it appears first [pH].
+    potential_v : float
+        Potential there [V vs the map's reference].
+    ph_range : tuple of float
+        The pH span of the grid points within 0.01 log units of the first
+        appearance (the index is often flat over a band of pH) [pH].
+    dominant : str
+        The dissolved species it is in equilibrium with there.
+    activity_set : float
+        The map's own set activity (or molality) [-].
+    """
+
+    solid: str
+    activity: float
+    ph: float
+    potential_v: float
+    dominant: str
+    activity_set: float
+    ph_range: tuple = ()
+
+    @property
+    def shown(self):
+        """True when the compound already has a field on the map."""
+        return self.activity <= self.activity_set
+
+
+def solid_onset(dmap, n_ph=241, n_potential=201):
+    """Where and from which set activity a solid compound of the element would first show.
+
+    On a map a solid s has a field where it lies below every dissolved plane,
+    i.e. where its saturation index (the least of log10(a_set / a_i) over the
+    dissolved species i in equilibrium with s) is >= 0. Raising every set
+    activity by a factor f raises that index by log10 f (module docstring), so
+    the compound with the largest index anywhere, index SI_max, shows from
+    ``a_set * 10**(-SI_max)``. Only points where a compound (not the element
+    itself) is the least-soluble solid count: where the metal is lower, no
+    activity makes the compound stable.
+
+    Parameters
+    ----------
+    dmap : DomainMap
+        A single-element map (ligands allowed).
+    n_ph, n_potential : int
+        Points of the search grid over the map's window; the index is linear
+        between changes of solid and dissolved species, so the grid maximum is
+        within a grid step of the true one.
+
+    Returns
+    -------
+    SolidOnset or None
+        None when no solid compound is the least-soluble solid anywhere in
+        the window (or the element has no solid compound).
+
+    Examples
+    --------
+    >>> from pourbaix.domain_map import compute_map
+    >>> onset = solid_onset(compute_map("Zn", activity=1e-6))
+    >>> onset.solid, onset.shown, f"{onset.activity:.1e}"
+    ('ZnO', False, '1.8e-06')
+    """
+    model = _model(dmap)
+    el = model.element
+    rows = [se for se in dmap.species if el in dict(se.species.composition)]
+    # the element itself (Zn, Hg(l) ...): a pure-element solid or liquid, no charge
+    metal = model.solid & np.array(
+        [set(dict(se.species.composition)) == {el} and se.species.charge == 0 for se in rows]
+    )
+    if not (model.solid & ~metal).any():
+        return None
+    x0, x1, y0, y1 = dmap.window
+    ph, e = np.meshgrid(np.linspace(x0, x1, n_ph), np.linspace(y0, y1, n_potential))
+    r = _evaluate(model, dmap, ph.ravel(), e.ravel())
+    metal_names = {n for n, m in zip(model.names, metal, strict=True) if m}
+    compound = np.array([s not in metal_names for s in r.solid])
+    if not compound.any():
+        return None
+    si = np.where(compound, r.saturation_index, -np.inf)
+    k = int(np.argmax(si))
+    a_set = dmap.conditions.molality if dmap.conditions.molality is not None else dmap.conditions.activity
+    near = (si >= si[k] - 0.01) & (r.solid == r.solid[k])
+    return SolidOnset(
+        solid=str(r.solid[k]),
+        activity=float(a_set * 10.0 ** (-si[k])),
+        ph=float(r.ph[k]),
+        potential_v=float(r.potential_v[k]),
+        dominant=str(r.dominant[k]),
+        activity_set=float(a_set),
+        ph_range=(float(r.ph[near].min()), float(r.ph[near].max())),
+    )
 
 
 # ---------------------------------------------------------------------- geometry
