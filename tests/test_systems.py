@@ -596,3 +596,24 @@ def test_user_row_outside_the_system_is_reported(tmp_path):
     assert any("CuSe(s)" in w and "Se" in w and "left out" in w for w in m.warnings)
     with pytest.raises(PourbaixError, match="holds Se"):
         compute_map("Cu", ligands={"S": 1e-3}, table=table, only=["CuSe"])
+
+
+def test_copper_carbonate_complexes_carry_copper_in_carbonate_water():
+    """Cu2+ + CO3^2- = CuCO3(aq), log beta1 = 6.75; + 2 CO3^2-, log beta2 = 10.3 (I = 0;
+    Powell et al., Pure Appl. Chem. 79, 895, 2007; from memory). In carbonate-buffered water
+    near pH 7-9 the carbonato complex, not Cu2+, carries dissolved copper(II) (common practice
+    in drinking-water copper chemistry)."""
+    from pourbaix.analyses import solubility
+
+    rt_ln10 = R_KJ * T25 * math.log(10)
+    g = {f: TABLE.get(f, "aq").dgf_kj_mol for f in ("Cu^2+", "CO3^2-", "CuCO3", "Cu(CO3)2^2-")}
+    log_b1 = -(g["CuCO3"] - g["Cu^2+"] - g["CO3^2-"]) / rt_ln10
+    log_b2 = -(g["Cu(CO3)2^2-"] - g["Cu^2+"] - 2 * g["CO3^2-"]) / rt_ln10
+    assert log_b1 == pytest.approx(6.75, abs=0.005)
+    assert log_b2 == pytest.approx(10.3, abs=0.005)
+    # 2e-3 total carbonate (about 24 mg C/L), oxidising water (0.4 V vs SHE) over tenorite
+    m = compute_map("Cu", ligands={"C": 2e-3}, table=TABLE)
+    r = solubility(m, np.array([7.5, 8.5]), 0.4)
+    assert list(r.dominant) == ["CuCO3(aq)", "CuCO3(aq)"]
+    plain = solubility(compute_map("Cu", table=TABLE), np.array([7.5, 8.5]), 0.4)
+    assert np.all(r.total_molality > 5 * plain.total_molality)
