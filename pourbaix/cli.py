@@ -139,26 +139,11 @@ def _print_warnings(dmap):
 
 def _note_missing_solid(dmap):
     """Say so when a one-element map shows no solid compound, and from what activity one would show."""
-    c = dmap.conditions
-    if len(c.elements) != 1 or c.ratio is not None or any(d.state == "passivation" for d in dmap.domains):
-        return
-    from .analyses.solubility import solid_onset
+    from .analyses.solubility import missing_solid_note
 
-    try:
-        onset = solid_onset(dmap)
-    except PourbaixError:  # no solid or no dissolved species of the element: nothing to say
-        return
-    if onset is None or onset.shown:
-        return
-    el = c.elements[0]
-    what = "molality" if c.molality is not None else "activity"
-    lo, hi = onset.ph_range
-    print(
-        f"pourbaix: note: no solid compound of {el} is stable on this map at {what} {onset.activity_set:.3g}; "
-        f"the first to show would be {onset.solid} (against {onset.dominant}) from {'a' if what == 'molality' else 'an'} {what} of about "
-        f"{onset.activity:.2g}, between pH {lo:.1f} and {hi:.1f} (see `pourbaix solubility {el}`)",
-        file=sys.stderr,
-    )
+    note = missing_solid_note(dmap)
+    if note:
+        print(f"pourbaix: note: {note}", file=sys.stderr)
 
 
 def _fmt_margin(v, unit):

@@ -1104,12 +1104,17 @@ def _build(dmap, *, title, extra_sections, analyses, figure, reading, second_ref
     for item in extra_sections or ():
         k += 1
         add(f"analysis-{k}", _as_section(item))
+    notes = list(dmap.warnings)
+    if isinstance(dmap, DomainMap):
+        from .analyses.solubility import missing_solid_note
+
+        notes += [n for n in (missing_solid_note(dmap),) if n]
     add(
         "warnings",
         Section(
             "Warnings",
-            text=() if dmap.warnings else ("No warnings for this map.",),
-            notes=tuple(dmap.warnings),
+            text=() if notes else ("No warnings for this map.",),
+            notes=tuple(notes),
         ),
     )
     add(

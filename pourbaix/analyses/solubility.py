@@ -40,6 +40,7 @@ __all__ = [
     "solubility_minimum",
     "SolidOnset",
     "solid_onset",
+    "missing_solid_note",
     "solubility_region",
     "solubility_lines",
     "add_solubility_lines",
@@ -652,6 +653,46 @@ def solid_onset(dmap, n_ph=241, n_potential=201):
         dominant=str(r.dominant[k]),
         activity_set=float(a_set),
         ph_range=(float(r.ph[near].min()), float(r.ph[near].max())),
+    )
+
+
+def missing_solid_note(dmap):
+    """A sentence for a one-element map that shows no solid compound: which would show first, from what.
+
+    Parameters
+    ----------
+    dmap : DomainMap
+        The map.
+
+    Returns
+    -------
+    str or None
+        None when the map shows a solid compound, is not a one-element map,
+        or has no solid compound of the element to speak of.
+
+    Examples
+    --------
+    >>> from pourbaix.domain_map import compute_map
+    >>> print(missing_solid_note(compute_map("Zn", activity=1e-6)))  # doctest: +ELLIPSIS
+    no solid compound of Zn is stable on this map at activity 1e-06; the first to show would be ZnO ...
+    """
+    c = dmap.conditions
+    if len(c.elements) != 1 or c.ratio is not None or any(d.state == "passivation" for d in dmap.domains):
+        return None
+    try:
+        onset = solid_onset(dmap)
+    except (ConditionsError, OptionError):  # no solid or no dissolved species of the element
+        return None
+    if onset is None or onset.shown:
+        return None
+    el = c.elements[0]
+    what = "molality" if c.molality is not None else "activity"
+    lo, hi = onset.ph_range
+    return (
+        f"no solid compound of {el} is stable on this map at {what} {onset.activity_set:.3g}; "
+        f"the first to show would be {onset.solid} (against {onset.dominant}) from "
+        f"{'a' if what == 'molality' else 'an'} {what} of about {onset.activity:.2g}, "
+        f"between pH {lo:.1f} and {hi:.1f} (see `pourbaix solubility {el}`)"
     )
 
 
