@@ -408,11 +408,9 @@ def build_parser():
 
 
 def _add_analysis_commands(sub):
-    try:
-        from .analyses import cli_commands
-    except ImportError:
-        return
-    cli_commands.register(sub, _add_conditions, _map_kwargs)
+    from .cli_analyses import register
+
+    register(sub, _add_conditions, _map_kwargs)
 
 
 def main(argv=None):

@@ -10,7 +10,7 @@ import math
 import sys
 from pathlib import Path
 
-from ..errors import DataFileError, OptionError
+from .errors import DataFileError, OptionError
 
 __all__ = ["register"]
 
@@ -42,7 +42,7 @@ def _positive(text):
 
 
 def _outputs(paths, allowed, option="--out"):
-    from ..export import check_writable
+    from .export import check_writable
 
     outs = [Path(p) for p in paths or ()]
     for o in outs:
@@ -66,7 +66,7 @@ def _notes(dmap):
 
 
 def _write_text(path, text):
-    from ..export import atomic_write_text
+    from .export import atomic_write_text
 
     atomic_write_text(path, text)
     print(f"wrote {path}")
@@ -82,8 +82,8 @@ def _report_target(a):
     Path or None
         The report's path, or None without ``--report``.
     """
-    from ..errors import ExportError
-    from ..export import check_writable
+    from .errors import ExportError
+    from .export import check_writable
 
     if not getattr(a, "report", None):
         return None
@@ -104,7 +104,7 @@ def _report(a, dmap, extra, figure=None):
         return None
     import contextlib
 
-    from ..report import write_report_from_args
+    from .report import write_report_from_args
 
     quiet = contextlib.redirect_stdout(sys.stderr) if a.json else contextlib.nullcontext()
     with quiet:
@@ -135,7 +135,7 @@ def _csv_text(rows):
 
 
 def _save(ax, outs):
-    from .. import draw
+    from . import draw
 
     for o in outs:
         draw.save_figure(ax, o)
@@ -156,14 +156,14 @@ def _parser(sub, name, help_text, description, example):
 def _cmd_solubility(a, map_kwargs):
     import numpy as np
 
-    from ..domain_map import compute_map
-    from .solubility import (
+    from .analyses.solubility import (
         DEFAULT_LEVELS,
         add_solubility_lines,
         draw_solubility_curve,
         solubility_curve,
         solubility_minimum,
     )
+    from .domain_map import compute_map
 
     element = _one_element(a, "solubility")
     if (a.potential is None) == (a.along is None):
@@ -261,7 +261,7 @@ def _cmd_solubility(a, map_kwargs):
         )
     levels = a.levels or DEFAULT_LEVELS
     if map_outs or report:
-        from .. import draw
+        from . import draw
 
         # one drawing of the map with its iso-solubility lines serves --map-out and the report
         map_ax = draw.draw_map(dmap)
@@ -293,7 +293,7 @@ def _cmd_solubility(a, map_kwargs):
 
 # ------------------------------------------------------------------ window
 def _cmd_window(a, map_kwargs):
-    from .windows import _describe, draw_window, leach_window
+    from .analyses.windows import _describe, draw_window, leach_window
 
     target = _one_element(a, "window")
     outs = _outputs(a.out, (*_FIGURES, ".json"))
@@ -328,8 +328,8 @@ def _cmd_window(a, map_kwargs):
 
 # ------------------------------------------------------------------ field
 def _cmd_field(a, map_kwargs):
-    from ..domain_map import compute_map
-    from .field import _table_lines, draw_field, place_readings, read_field_csv
+    from .analyses.field import _table_lines, draw_field, place_readings, read_field_csv
+    from .domain_map import compute_map
 
     outs = _outputs(a.out, (*_FIGURES, ".json", ".csv"))
     _report_target(a)
@@ -405,9 +405,9 @@ def _cmd_field(a, map_kwargs):
 
 # ------------------------------------------------------------------ reading
 def _cmd_reading(a, map_kwargs):
-    from ..domain_map import compute_map
-    from ..electrodes import get_reference
-    from .reading import corrosion_reading
+    from .analyses.reading import corrosion_reading
+    from .domain_map import compute_map
+    from .electrodes import get_reference
 
     element = _one_element(a, "reading")
     _report_target(a)
@@ -451,9 +451,9 @@ def _cmd_reading(a, map_kwargs):
 
 # ------------------------------------------------------------------ compare
 def _cmd_compare(a, map_kwargs):
-    from ..data import load_species
-    from ..domain_map import compute_map
-    from .compare import _table_lines, compare_maps, draw_comparison
+    from .analyses.compare import _table_lines, compare_maps, draw_comparison
+    from .data import load_species
+    from .domain_map import compute_map
 
     outs = _outputs(a.out, (*_FIGURES, ".json", ".csv"))
     _report_target(a)
@@ -553,8 +553,7 @@ def register(sub, add_conditions, map_kwargs):
     map_kwargs : callable
         ``map_kwargs(args)`` turns them into keyword arguments of ``compute_map``.
     """
-    from ..report import add_report_option
-    from .solubility import DEFAULT_LEVELS
+    from .report import add_report_option
 
     p = _parser(
         sub,
@@ -606,7 +605,7 @@ def register(sub, add_conditions, map_kwargs):
         "--levels",
         nargs="+",
         type=_positive,
-        default=list(DEFAULT_LEVELS),
+        default=None,
         metavar="MOL_KG",
         help="levels of the iso-solubility lines (default 1e-2 1e-4 1e-6 1e-8)",
     )
