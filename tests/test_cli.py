@@ -123,3 +123,15 @@ def test_light_commands_do_not_import_matplotlib():
     )
     res = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=False)
     assert res.returncode == 0, res.stderr
+
+
+def test_building_the_parser_does_not_import_the_analyses():
+    # registering the analysis commands must not pull in the analyses (and numpy): `datasets`
+    # and every --help start without them
+    code = (
+        "import sys; from pourbaix.cli import build_parser, main; build_parser(); main(['datasets']); "
+        "assert 'numpy' not in sys.modules, 'numpy imported'; "
+        "assert not [m for m in sys.modules if m.startswith('pourbaix.analyses')], 'analyses imported'"
+    )
+    res = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=False)
+    assert res.returncode == 0, res.stderr
