@@ -794,6 +794,28 @@ def _check_range(name, rng, unit=""):
     return (lo, hi)
 
 
+def _check_basics(elements, activity, molality, ph_range, potential_range_v):
+    """Validate and normalise the conditions every map takes (elements, amount, window).
+
+    Returns
+    -------
+    tuple
+        ``(elements, activity, molality, ph_range, potential_range_v)``; the
+        activity defaults to 1e-6 when neither it nor a molality is given.
+    """
+    elements = _parse_elements(elements)
+    ph_range = _check_range("pH range", ph_range)
+    potential_range_v = _check_range("potential range", potential_range_v, " V")
+    if activity is not None and molality is not None:
+        raise OptionError("give either activity or molality, not both")
+    if activity is None and molality is None:
+        activity = 1e-6
+    for label, v in (("activity", activity), ("molality", molality)):
+        if v is not None and not (math.isfinite(float(v)) and float(v) > 0):
+            raise ConditionsError(f"{label} must be a positive number, got {v}")
+    return elements, activity, molality, ph_range, potential_range_v
+
+
 def compute_map(
     elements,
     *,
@@ -884,16 +906,9 @@ def compute_map(
     """
     from .data import load_species
 
-    elements = _parse_elements(elements)
-    ph_range = _check_range("pH range", ph_range)
-    potential_range_v = _check_range("potential range", potential_range_v, " V")
-    if activity is not None and molality is not None:
-        raise OptionError("give either activity or molality, not both")
-    if activity is None and molality is None:
-        activity = 1e-6
-    for label, v in (("activity", activity), ("molality", molality)):
-        if v is not None and not (math.isfinite(float(v)) and float(v) > 0):
-            raise ConditionsError(f"{label} must be a positive number, got {v}")
+    elements, activity, molality, ph_range, potential_range_v = _check_basics(
+        elements, activity, molality, ph_range, potential_range_v
+    )
     if table is None:
         table = load_species(dataset, tuple(data_files))
     warn = list(getattr(table, "overrides", ()))

@@ -41,9 +41,9 @@ from .domain_map import (
     DomainMap,
     Entry,
     ProbeResult,
+    _check_basics,
     _check_range,
     _conditions_context,
-    _parse_elements,
     _reference_frame,
     _route_warnings,
     _state_of,
@@ -1024,16 +1024,9 @@ def compute_system_map(
     """
     from .data import load_species
 
-    elements = _parse_elements(elements)
-    ph_range = _check_range("pH range", ph_range)
-    potential_range_v = _check_range("potential range", potential_range_v, " V")
-    if activity is not None and molality is not None:
-        raise OptionError("give either activity or molality, not both")
-    if activity is None and molality is None:
-        activity = 1e-6
-    for what, v in (("activity", activity), ("molality", molality)):
-        if v is not None and not (math.isfinite(float(v)) and float(v) > 0):
-            raise ConditionsError(f"{what} must be a positive number, got {v}")
+    elements, activity, molality, ph_range, potential_range_v = _check_basics(
+        elements, activity, molality, ph_range, potential_range_v
+    )
     families = _parse_ligands(ligands)
     ratio_vals = _parse_ratio(elements, ratio)
     lig_elements, U = _unit_matrix(families)
