@@ -23,7 +23,7 @@ import numpy as np
 
 from .errors import ConditionsError
 
-__all__ = ["Envelope", "Edge", "lower_envelope", "clip_domains"]
+__all__ = ["Envelope", "Edge", "lower_envelope", "clip_domains", "clip_halfplane"]
 
 # Two vertices closer than this (in window-normalised units) are one vertex;
 # a plane within this (in volts) of the envelope at a vertex is on it.
@@ -494,7 +494,7 @@ def clip_domains(planes, window):
             if j == i or j in coincident:
                 continue
             d = pi - pj  # keep d0 + dph x + de y <= 0
-            poly = _clip(poly, d)
+            poly = clip_halfplane(poly, d, 1e-12)
             if poly is None:
                 break
         if poly is not None and abs(_polygon_area(poly)) > _AREA_TOL * (x1 - x0) * (y1 - y0):
@@ -504,11 +504,31 @@ def clip_domains(planes, window):
     return out
 
 
-def _clip(poly, d):
+def clip_halfplane(poly, d, tol=0.0):
+    """Clip a convex polygon to the half plane ``d0 + d1 x + d2 y <= 0`` (Sutherland & Hodgman 1974).
+
+    Parameters
+    ----------
+    poly : ndarray, shape (k, 2), or None
+        Vertices in order (either orientation).
+    d : array_like, shape (3,)
+        Half-plane coefficients, in the units of ``poly``.
+    tol : float
+        Values within ``tol`` of zero count as on the line: the polygon is
+        kept whole when every vertex is at or below ``tol`` and dropped when
+        every vertex is at or above ``-tol``.
+
+    Returns
+    -------
+    ndarray or None
+        The clipped polygon, or None when less than a triangle is left.
+    """
+    if poly is None or len(poly) < 3:
+        return None
     vals = d[0] + d[1] * poly[:, 0] + d[2] * poly[:, 1]
-    if np.all(vals <= 1e-12):
+    if np.all(vals <= tol):
         return poly
-    if np.all(vals > -1e-12):
+    if np.all(vals >= -tol):
         return None
     res = []
     n = len(poly)
@@ -518,8 +538,5 @@ def _clip(poly, d):
         if vp <= 0:
             res.append(p)
         if (vp < 0 < vq) or (vq < 0 < vp):
-            t = vp / (vp - vq)
-            res.append(p + t * (q - p))
-    if len(res) < 3:
-        return None
-    return np.array(res)
+            res.append(p + (vp / (vp - vq)) * (q - p))
+    return np.array(res) if len(res) >= 3 else None

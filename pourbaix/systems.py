@@ -715,26 +715,6 @@ def _straight_segments(geom, min_length):
     return segs
 
 
-def _clip_halfplane(poly, d):
-    """Clip a convex polygon (k, 2) to d0 + dph x + de y <= 0 (Sutherland & Hodgman 1974)."""
-    vals = d[0] + d[1] * poly[:, 0] + d[2] * poly[:, 1]
-    scale = 1e-13 * (1.0 + np.abs(d).sum())
-    if np.all(vals <= scale):
-        return poly
-    if np.all(vals >= -scale):
-        return None
-    out = []
-    n = len(poly)
-    for k in range(n):
-        p, q = poly[k], poly[(k + 1) % n]
-        vp, vq = vals[k], vals[(k + 1) % n]
-        if vp <= 0:
-            out.append(p)
-        if (vp < 0 < vq) or (vq < 0 < vp):
-            out.append(p + (vp / (vp - vq)) * (q - p))
-    return np.array(out) if len(out) >= 3 else None
-
-
 def _cell(poly, planes, i, others):
     """Part of a convex polygon where plane i is not above any of ``others``."""
     for j in others:
@@ -743,7 +723,7 @@ def _cell(poly, planes, i, others):
         d = planes[i] - planes[j]
         if not np.any(d):
             continue  # coincident planes: the lower index keeps the ground (as in solve)
-        poly = _clip_halfplane(poly, d)
+        poly = solve.clip_halfplane(poly, d, 1e-13 * (1.0 + np.abs(d).sum()))
         if poly is None:
             return None
     return poly

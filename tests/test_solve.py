@@ -229,3 +229,28 @@ def test_enumeration_and_qhull_vertex_routes_agree(planes):
         if a is not None:
             assert Polygon(a).symmetric_difference(Polygon(b)).area < 1e-9
     assert sorted(e.pair for e in small.edges) == sorted(e.pair for e in big.edges)
+
+
+def test_clip_halfplane_matches_shapely():
+    # Reference: GEOS intersection of the polygon with a large box on the kept side of the line.
+    from shapely.geometry import Polygon as ShapelyPolygon
+
+    from pourbaix.solve import clip_halfplane
+
+    rng = np.random.default_rng(7)
+    for _ in range(200):
+        ang = np.sort(rng.uniform(0, 2 * np.pi, rng.integers(3, 9)))
+        poly = np.column_stack([np.cos(ang), np.sin(ang)]) * rng.uniform(0.5, 3) + rng.uniform(-1, 1, 2)
+        d = rng.normal(size=3)
+        got = clip_halfplane(poly, d)
+        # kept side d0 + d1 x + d2 y <= 0 as a big polygon: points far along -normal from the line
+        n = d[1:] / np.hypot(*d[1:])
+        p0 = -d[0] * d[1:] / (d[1:] @ d[1:])  # a point on the line
+        t = np.array([-n[1], n[0]])
+        side = ShapelyPolygon([p0 + 50 * t, p0 - 50 * t, p0 - 50 * t - 50 * n, p0 + 50 * t - 50 * n])
+        want = ShapelyPolygon(poly).intersection(side).area
+        assert (0.0 if got is None else ShapelyPolygon(got).area) == pytest.approx(want, abs=1e-9)
+    square = np.array([[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]])
+    assert clip_halfplane(square, np.array([-2.0, 1.0, 0.0])) is square  # x <= 2 keeps it whole
+    assert clip_halfplane(square, np.array([2.0, 1.0, 0.0])) is None  # x <= -2 leaves nothing
+    assert clip_halfplane(None, np.array([0.0, 1.0, 0.0])) is None

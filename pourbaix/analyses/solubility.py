@@ -31,6 +31,7 @@ import numpy as np
 
 from ..errors import ConditionsError, OptionError
 from ..formula import _TO_SUPER
+from ..solve import clip_halfplane
 
 __all__ = [
     "DEFAULT_LEVELS",
@@ -767,27 +768,6 @@ def _pieces(model):
     return out
 
 
-def _clip(poly, d):
-    """Clip a convex polygon (k, 2) to d0 + d1 x + d2 y <= 0 (Sutherland & Hodgman 1974)."""
-    if poly is None or len(poly) < 3:
-        return None
-    vals = d[0] + d[1] * poly[:, 0] + d[2] * poly[:, 1]
-    if np.all(vals <= 0):
-        return poly
-    if np.all(vals >= 0):
-        return None
-    out = []
-    n = len(poly)
-    for k in range(n):
-        p, q = poly[k], poly[(k + 1) % n]
-        vp, vq = vals[k], vals[(k + 1) % n]
-        if vp <= 0:
-            out.append(p)
-        if (vp < 0 < vq) or (vq < 0 < vp):
-            out.append(p + (vp / (vp - vq)) * (q - p))
-    return np.array(out) if len(out) >= 3 else None
-
-
 def _g(A, pts):
     pts = np.atleast_2d(pts)
     return _log10_sum(A[None, :, 0] + pts[:, :1] * A[None, :, 1] + pts[:, 1:2] * A[None, :, 2])
@@ -978,7 +958,7 @@ def _outer(inner, A, L, P, scale):
     N = np.column_stack([np.roll(P[:, 1], -1) - P[:, 1], -(np.roll(P[:, 0], -1) - P[:, 0])])
     b = np.einsum("ij,ij->i", N, P)
     for nrm, rhs in zip(N, b, strict=True):
-        poly = _clip(poly, np.array([-rhs, nrm[0], nrm[1]]))
+        poly = clip_halfplane(poly, np.array([-rhs, nrm[0], nrm[1]]))
         if poly is None:
             return None
     return poly
@@ -1013,7 +993,7 @@ def _cells(model, level, basis, tolerance):
         if basis == "species":
             C = P
             for row in A:  # a_i / γ_i <= level for every dissolved species: half-planes
-                C = _clip(C, np.array([row[0] - L, row[1], row[2]]))
+                C = clip_halfplane(C, np.array([row[0] - L, row[1], row[2]]))
                 if C is None:
                     break
             out.append((P, C, C, A))
