@@ -20,6 +20,8 @@ SAFETY = (
 )
 
 _OUT_KINDS = (".png", ".svg", ".pdf", ".json", ".csv")
+# names of pourbaix.draw.PALETTES, kept here so that building the parser does not import the drawing
+_PALETTES = ("default", "grey")
 
 
 class _Parser(argparse.ArgumentParser):
@@ -177,7 +179,7 @@ def cmd_map(a):
     if figure_outs:
         from . import draw
 
-        ax = draw.draw_map(dmap, reading=a.reading, second_reference=a.second_axis)
+        ax = draw.draw_map(dmap, reading=a.reading, second_reference=a.second_axis, palette=a.palette)
         if a.solubility_lines is not None:
             from .analyses.solubility import DEFAULT_LEVELS, add_solubility_lines
 
@@ -348,6 +350,12 @@ def build_parser():
     m.add_argument("--out", action="append", metavar="FILE", help="output file; extension picks the kind (.png .svg .pdf .json .csv); repeatable")
     m.add_argument("--reading", action="store_true", help="shade the corrosion reading (immunity / passivation / corrosion)")
     m.add_argument("--second-axis", metavar="REFERENCE", help="add a right-hand potential axis vs another reference")
+    m.add_argument(
+        "--palette",
+        choices=_PALETTES,
+        default="default",
+        help="fill colours: default (tints by state) or grey (for greyscale print)",
+    )
     m.add_argument(
         "--solubility-lines",
         nargs="*",

@@ -135,3 +135,19 @@ def test_building_the_parser_does_not_import_the_analyses():
     )
     res = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=False)
     assert res.returncode == 0, res.stderr
+
+
+def test_map_palette_option(tmp_path, capsys):
+    from pourbaix import draw
+    from pourbaix.cli import _PALETTES
+
+    assert _PALETTES == tuple(draw.PALETTES)
+    svg = tmp_path / "fe-grey.svg"
+    code, out, err = run(capsys, "map", "Fe", "--palette", "grey", "--out", str(svg))
+    assert code == 0, err
+    text = svg.read_text(encoding="utf-8")
+    # the grey palette's immunity tint fills the Fe domain; no tint of the default palette is used
+    assert draw.PALETTES["grey"]["immunity"][0] in text
+    assert not any(c in text for cs in draw.PALETTES["default"].values() for c in (cs if isinstance(cs, tuple) else (cs,)))
+    code, out, err = run(capsys, "map", "Fe", "--palette", "sepia", "--out", str(tmp_path / "x.svg"))
+    assert code == 2 and "invalid choice" in err and not (tmp_path / "x.svg").exists()
