@@ -152,6 +152,16 @@ def _parser(sub, name, help_text, description, example):
     )
 
 
+def _add_outputs(p, out_help=None):
+    """The options every analysis command ends with: ``--out`` (when it writes files), ``--json``, ``--report``."""
+    from .report import add_report_option
+
+    if out_help is not None:
+        p.add_argument("--out", action="append", default=[], metavar="FILE", help=out_help)
+    p.add_argument("--json", action="store_true", help="print JSON")
+    add_report_option(p)
+
+
 # ------------------------------------------------------------------ solubility
 def _cmd_solubility(a, map_kwargs):
     import numpy as np
@@ -553,8 +563,6 @@ def register(sub, add_conditions, map_kwargs):
     map_kwargs : callable
         ``map_kwargs(args)`` turns them into keyword arguments of ``compute_map``.
     """
-    from .report import add_report_option
-
     p = _parser(
         sub,
         "solubility",
@@ -615,8 +623,7 @@ def register(sub, add_conditions, map_kwargs):
         default="total",
         help="lines of the total (default) or of each dissolved species on its own",
     )
-    p.add_argument("--json", action="store_true", help="print JSON")
-    add_report_option(p)
+    _add_outputs(p)
     p.set_defaults(func=lambda a: _cmd_solubility(a, map_kwargs), window=False)
 
     w = _parser(
@@ -661,15 +668,7 @@ def register(sub, add_conditions, map_kwargs):
         action="store_true",
         help="do not limit the window to the stability field of water",
     )
-    w.add_argument(
-        "--out",
-        action="append",
-        default=[],
-        metavar="FILE",
-        help="figure (.png/.svg/.pdf) or .json; repeatable",
-    )
-    w.add_argument("--json", action="store_true", help="print JSON")
-    add_report_option(w)
+    _add_outputs(w, "figure (.png/.svg/.pdf) or .json; repeatable")
     w.set_defaults(func=lambda a: _cmd_window(a, map_kwargs), window=True)
 
     f = _parser(
@@ -683,15 +682,7 @@ def register(sub, add_conditions, map_kwargs):
     )
     add_conditions(f)
     f.add_argument("--readings", required=True, metavar="FILE.csv", help="the readings")
-    f.add_argument(
-        "--out",
-        action="append",
-        default=[],
-        metavar="FILE",
-        help="figure (.png/.svg/.pdf), .csv or .json; repeatable",
-    )
-    f.add_argument("--json", action="store_true", help="print JSON")
-    add_report_option(f)
+    _add_outputs(f, "figure (.png/.svg/.pdf), .csv or .json; repeatable")
     f.set_defaults(func=lambda a: _cmd_field(a, map_kwargs), window=True)
 
     r = _parser(
@@ -712,8 +703,7 @@ def register(sub, add_conditions, map_kwargs):
         metavar="E",
         help="measured potential [V vs --reference]",
     )
-    r.add_argument("--json", action="store_true", help="print JSON")
-    add_report_option(r)
+    _add_outputs(r)
     r.set_defaults(func=lambda a: _cmd_reading(a, map_kwargs), window=False)
 
     c = _parser(
@@ -748,13 +738,5 @@ def register(sub, add_conditions, map_kwargs):
         metavar="X",
         help="compare every sloped boundary at this pH (default: each boundary's midpoint)",
     )
-    c.add_argument(
-        "--out",
-        action="append",
-        default=[],
-        metavar="FILE",
-        help="overlay figure (.png/.svg/.pdf), .csv or .json; repeatable",
-    )
-    c.add_argument("--json", action="store_true", help="print JSON")
-    add_report_option(c)
+    _add_outputs(c, "overlay figure (.png/.svg/.pdf), .csv or .json; repeatable")
     c.set_defaults(func=lambda a: _cmd_compare(a, map_kwargs), window=True)
