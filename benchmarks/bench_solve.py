@@ -53,7 +53,9 @@ def synthetic_planes(n, seed=3):
     rng = np.random.default_rng(seed)
     k = 0.05916
     x = rng.integers(1, 4, n)
-    return np.column_stack([rng.uniform(-3, 3, n), -rng.integers(-4, 17, n) * k / x, -rng.integers(-2, 9, n) / x])
+    return np.column_stack(
+        [rng.uniform(-3, 3, n), -rng.integers(-4, 17, n) * k / x, -rng.integers(-2, 9, n) / x]
+    )
 
 
 def check_grid(planes, env, xs, ys, grid):
@@ -70,7 +72,11 @@ def check_grid(planes, env, xs, ys, grid):
             owner[contains_xy(Polygon(p), x, y)] = i
     inside = owner >= 0  # grid nodes exactly on an edge are skipped (they belong to two domains)
     # distance to a boundary in volts: gap between the two lowest planes over |Δce|
-    vals = planes[:, 0][None, :] + np.outer(x[inside], planes[:, 1]) + np.outer(y[inside], planes[:, 2])
+    vals = (
+        planes[:, 0][None, :]
+        + np.outer(x[inside], planes[:, 1])
+        + np.outer(y[inside], planes[:, 2])
+    )
     vals_sorted = np.sort(vals, axis=1)
     clear = (vals_sorted[:, 1] - vals_sorted[:, 0]) > 1e-3
     bad = np.sum(owner[inside][clear] != g[inside][clear])
@@ -79,12 +85,14 @@ def check_grid(planes, env, xs, ys, grid):
 
 def bench_systems(repeat):
     import pourbaix
-    from pourbaix.data import load_species
-    from pourbaix.solve import lower_envelope
+    from pourbaix.solve.envelope import lower_envelope
+    from pourbaix.tables.species import load_species
 
     table = load_species()
     window = (-2.0, 16.0, -2.0, 2.0)
-    print(f"{'system':<12}{'N':>5}{'solve ms':>10}{'map ms':>9}{'grid ms':>10}{'ratio':>9}{'grid pts':>11}{'disagree':>10}")
+    print(
+        f"{'system':<12}{'N':>5}{'solve ms':>10}{'map ms':>9}{'grid ms':>10}{'ratio':>9}{'grid pts':>11}{'disagree':>10}"
+    )
     cases = [(el, None) for el in ("Fe", "Cu", "Zn", "Mn")] + [("synthetic", synthetic_planes(200))]
     for name, planes in cases:
         if planes is None:
@@ -103,7 +111,9 @@ def bench_systems(repeat):
             f"{name:<12}{len(planes):>5}{t_solve * 1e3:>10.3f}{t_map * 1e3:>9.2f}{t_grid * 1e3:>10.0f}"
             f"{t_grid / t_solve:>8.0f}x{grid.size:>11}{bad:>10}"
         )
-    print("solve = planes -> exact polygons; map = compute_map with tables loaded; grid = 0.01 pH x 1 mV argmin")
+    print(
+        "solve = planes -> exact polygons; map = compute_map with tables loaded; grid = 0.01 pH x 1 mV argmin"
+    )
 
 
 def bench_command(repeat):
@@ -113,7 +123,7 @@ def bench_command(repeat):
         "fig, ax = plt.subplots(); fig.savefig(sys.argv[1]); print(time.perf_counter()-t)"
     )
     split_code = (
-        "import time, sys; t0=time.perf_counter(); import pourbaix; from pourbaix.domain_map import compute_map; "
+        "import time, sys; t0=time.perf_counter(); import pourbaix; from pourbaix.maps.domain_map import compute_map; "
         "t1=time.perf_counter(); m=compute_map('Fe'); t2=time.perf_counter(); "
         "from pourbaix import draw; ax=draw.draw_map(m); draw.save_figure(ax, sys.argv[1]); t3=time.perf_counter(); "
         "print(t1-t0, t2-t1, t3-t2)"
@@ -126,7 +136,7 @@ def bench_command(repeat):
         env = {k: v for k, v in os.environ.items() if k != "PYTHONDONTWRITEBYTECODE"}
         env["PYTHONPYCACHEPREFIX"] = str(Path(tmp) / "pycache")
         floor_cmd = [sys.executable, "-c", "import sys; " + floor_code, str(out)]
-        map_cmd = [sys.executable, "-m", "pourbaix.cli", "map", "Fe", "--out", str(out)]
+        map_cmd = [sys.executable, "-m", "pourbaix.cli.commands", "map", "Fe", "--out", str(out)]
         for cmd in (floor_cmd, map_cmd):  # warm-up: fill the bytecode cache and the OS file cache
             subprocess.run(cmd, check=True, capture_output=True, env=env)
         floor, whole, parts = [], [], []
@@ -138,18 +148,32 @@ def bench_command(repeat):
             subprocess.run(map_cmd, check=True, capture_output=True, env=env)
             whole.append(time.perf_counter() - t)
             res = subprocess.run(
-                [sys.executable, "-c", split_code, str(out)], check=True, capture_output=True, text=True, env=env
+                [sys.executable, "-c", split_code, str(out)],
+                check=True,
+                capture_output=True,
+                text=True,
+                env=env,
             )
             parts.append([float(v) for v in res.stdout.split()])
     f, w = statistics.median(floor), statistics.median(whole)
     imp, solve, render = (statistics.median(p[i] for p in parts) for i in range(3))
     print(f"\n`pourbaix map Fe --out fe.svg`: {w * 1e3:.0f} ms wall (median of {repeat})")
-    print(f"  in-process split: import {imp * 1e3:.0f} ms, solve {solve * 1e3:.0f} ms (first call, loads tables), render+save {render * 1e3:.0f} ms")
+    print(
+        f"  in-process split: import {imp * 1e3:.0f} ms, solve {solve * 1e3:.0f} ms (first call, loads tables), render+save {render * 1e3:.0f} ms"
+    )
     print(f"floor (python + numpy/scipy/shapely/matplotlib + empty SVG): {f * 1e3:.0f} ms wall")
-    print(f"ratio command / floor: {w / f:.2f}  (both with compiled bytecode, after one warm-up run)")
-    code = "import sys; from pourbaix.cli import main; main(sys.argv[1:]); print('matplotlib' in sys.modules, file=sys.stderr)"
-    for cmd in (["probe", "Fe", "--ph", "7", "--potential", "-0.6"], ["lines", "Fe"], ["species", "Fe"]):
-        res = subprocess.run([sys.executable, "-c", code, *cmd], capture_output=True, text=True, check=True)
+    print(
+        f"ratio command / floor: {w / f:.2f}  (both with compiled bytecode, after one warm-up run)"
+    )
+    code = "import sys; from pourbaix.cli.commands import main; main(sys.argv[1:]); print('matplotlib' in sys.modules, file=sys.stderr)"
+    for cmd in (
+        ["probe", "Fe", "--ph", "7", "--potential", "-0.6"],
+        ["lines", "Fe"],
+        ["species", "Fe"],
+    ):
+        res = subprocess.run(
+            [sys.executable, "-c", code, *cmd], capture_output=True, text=True, check=True
+        )
         print(f"`pourbaix {cmd[0]}` imports matplotlib: {res.stderr.strip().splitlines()[-1]}")
 
 

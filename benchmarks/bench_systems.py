@@ -57,9 +57,9 @@ def main(argv=None):
     a = p.parse_args(argv)
 
     from pourbaix import compute_map
-    from pourbaix.data import load_species
-    from pourbaix.solve import lower_envelope
-    from pourbaix.systems import ratio_combinations
+    from pourbaix.maps.systems import ratio_combinations
+    from pourbaix.solve.envelope import lower_envelope
+    from pourbaix.tables.species import load_species
 
     table = load_species()
     window = (-2.0, 16.0, -2.0, 2.0)

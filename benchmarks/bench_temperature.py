@@ -23,8 +23,8 @@ def main():
     p.add_argument("--repeat", type=int, default=21)
     a = p.parse_args()
 
-    from pourbaix.data import load_species
-    from pourbaix.domain_map import compute_map, compute_sweep
+    from pourbaix.maps.domain_map import compute_map, compute_sweep
+    from pourbaix.tables.species import load_species
 
     table = load_species()
     compute_map("Fe", table=table)  # warm imports
@@ -44,7 +44,9 @@ def main():
         compute_map("Fe", temperature_c=t_c, table=table)
         first = time.perf_counter() - t0
         m = median(lambda t_c=t_c: compute_map("Fe", temperature_c=t_c, table=table))
-        print(f"Fe at {t_c:g} °C: first call {first * 1e3:.1f} ms (IAPWS-95 solve), then {m * 1e3:.2f} ms median = {m / base:.2f}x the 25 °C map")
+        print(
+            f"Fe at {t_c:g} °C: first call {first * 1e3:.1f} ms (IAPWS-95 solve), then {m * 1e3:.2f} ms median = {m / base:.2f}x the 25 °C map"
+        )
 
     temps = np.linspace(5.0, 300.0, 100)
     t0 = time.perf_counter()
@@ -55,7 +57,9 @@ def main():
         t0 = time.perf_counter()
         compute_sweep("Fe", temperatures_c=list(temps), table=table)
         per.append((time.perf_counter() - t0) / len(temps))
-    print(f"sweep of 100 temperatures: {cold:.2f} s cold (water state per T), then {statistics.median(per) * 1e3:.2f} ms per map (median of 3 sweeps)")
+    print(
+        f"sweep of 100 temperatures: {cold:.2f} s cold (water state per T), then {statistics.median(per) * 1e3:.2f} ms per map (median of 3 sweeps)"
+    )
 
 
 if __name__ == "__main__":

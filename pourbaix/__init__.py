@@ -2,14 +2,14 @@
 
 The main entry point is :func:`compute_map`, which returns a
 :class:`DomainMap` holding exact stability domains, boundary lines, the water
-window and the data used. Drawing lives in :mod:`pourbaix.draw` and is
+window and the data used. Drawing lives in :mod:`pourbaix.plot.draw` and is
 imported only when needed (matplotlib is never imported by computing).
 
 A map is a thermodynamic prediction: it says nothing about rates, film
 quality, pitting, crevices or microbiology.
 """
 
-from .errors import PourbaixError
+from pourbaix.errors import PourbaixError
 
 __version__ = "0.1.0"
 
@@ -19,11 +19,11 @@ __all__ = ["PourbaixError", "compute_map", "DomainMap", "Conditions", "load_spec
 def __getattr__(name):
     # Lazy imports keep `import pourbaix` cheap for the command line.
     if name in ("compute_map", "DomainMap", "Conditions", "compute_sweep"):
-        from . import domain_map
+        from pourbaix.maps import domain_map
 
         return getattr(domain_map, name)
     if name == "load_species":
-        from .data import load_species
+        from pourbaix.tables.species import load_species
 
         return load_species
     raise AttributeError(f"module 'pourbaix' has no attribute {name!r}")

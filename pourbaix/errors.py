@@ -40,7 +40,10 @@ class DataFileError(DataError):
 
     def __init__(self, problems):
         self.problems = list(problems)
-        lines = [f"{p}:{ln}:{col}: {msg}" if col else f"{p}:{ln}: {msg}" for p, ln, col, msg in self.problems]
+        lines = [
+            f"{p}:{ln}:{col}: {msg}" if col else f"{p}:{ln}: {msg}"
+            for p, ln, col, msg in self.problems
+        ]
         super().__init__("\n".join(lines))
 
 

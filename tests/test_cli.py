@@ -6,7 +6,7 @@ import sys
 
 import pytest
 
-from pourbaix.cli import main
+from pourbaix.cli.commands import main
 
 
 def run(capsys, *args):
@@ -20,7 +20,9 @@ def run(capsys, *args):
 
 def test_map_writes_figure_json_and_csv(tmp_path, capsys):
     png, js, csv = tmp_path / "fe.png", tmp_path / "fe.json", tmp_path / "fe.csv"
-    code, out, err = run(capsys, "map", "Fe", "--out", str(png), "--out", str(js), "--out", str(csv))
+    code, out, err = run(
+        capsys, "map", "Fe", "--out", str(png), "--out", str(js), "--out", str(csv)
+    )
     assert code == 0, err
     assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
     doc = json.loads(js.read_text())
@@ -36,14 +38,18 @@ def test_map_says_when_no_solid_compound_shows(tmp_path, capsys):
     assert code == 0, err
     note = [ln for ln in err.splitlines() if "no solid compound of Zn" in ln]
     assert len(note) == 1 and "ZnO" in note[0] and "1.8e-06" in note[0]
-    code, out, err = run(capsys, "map", "Zn", "--activity", "1e-5", "--out", str(tmp_path / "zn5.json"))
+    code, out, err = run(
+        capsys, "map", "Zn", "--activity", "1e-5", "--out", str(tmp_path / "zn5.json")
+    )
     assert code == 0 and "no solid compound" not in err
     code, out, err = run(capsys, "map", "Fe", "--out", str(tmp_path / "fe.json"))
     assert code == 0 and "no solid compound" not in err
 
 
 def test_probe_answers_species_state_and_margins(capsys):
-    code, out, err = run(capsys, "probe", "Fe", "--ph", "7", "--potential", "-0.6", "--reference", "SCE")
+    code, out, err = run(
+        capsys, "probe", "Fe", "--ph", "7", "--potential", "-0.6", "--reference", "SCE"
+    )
     assert code == 0, err
     assert "Fe^2+" in out and "corrosion" in out and "mV" in out
 
@@ -85,7 +91,10 @@ def test_references_and_datasets_list(capsys):
     [
         (["probe", "Xx", "--ph", "7", "--potential", "0"], "unknown element 'Xx'"),
         (["map", "Fe", "--ph", "9", "3", "--out", "x.json"], "pH range"),
-        (["probe", "Fe", "--ph", "7", "--potential", "0", "--reference", "calomelish"], "unknown reference"),
+        (
+            ["probe", "Fe", "--ph", "7", "--potential", "0", "--reference", "calomelish"],
+            "unknown reference",
+        ),
         (["map", "Fe", "--out", "fe.xyz"], "unknown file type"),
         (["map", "Fe", "--activity", "-3", "--out", "a.json"], "positive"),
         (["probe", "Fe", "--ph", "seven", "--potential", "0"], "not a number"),
@@ -109,7 +118,12 @@ def test_unwritable_output_leaves_nothing(tmp_path, capsys):
 
 def test_help_has_an_example_and_the_caution():
     for cmd in ("map", "probe", "lines"):
-        res = subprocess.run([sys.executable, "-m", "pourbaix.cli", cmd, "--help"], capture_output=True, text=True, check=False)
+        res = subprocess.run(
+            [sys.executable, "-m", "pourbaix.cli.commands", cmd, "--help"],
+            capture_output=True,
+            text=True,
+            check=False,
+        )
         assert res.returncode == 0
         assert "example:" in res.stdout
         assert "licensed practice" in res.stdout
@@ -117,7 +131,7 @@ def test_help_has_an_example_and_the_caution():
 
 def test_light_commands_do_not_import_matplotlib():
     code = (
-        "import sys; from pourbaix.cli import main; "
+        "import sys; from pourbaix.cli.commands import main; "
         "main(['probe','Fe','--ph','7','--potential','-0.6']); main(['lines','Fe']); main(['species','Fe']); "
         "assert 'matplotlib' not in sys.modules, 'matplotlib imported'"
     )
@@ -129,7 +143,7 @@ def test_building_the_parser_does_not_import_the_analyses():
     # registering the analysis commands must not pull in the analyses (and numpy): `datasets`
     # and every --help start without them
     code = (
-        "import sys; from pourbaix.cli import build_parser, main; build_parser(); main(['datasets']); "
+        "import sys; from pourbaix.cli.commands import build_parser, main; build_parser(); main(['datasets']); "
         "assert 'numpy' not in sys.modules, 'numpy imported'; "
         "assert not [m for m in sys.modules if m.startswith('pourbaix.analyses')], 'analyses imported'"
     )
@@ -138,8 +152,8 @@ def test_building_the_parser_does_not_import_the_analyses():
 
 
 def test_map_palette_option(tmp_path, capsys):
-    from pourbaix import draw
-    from pourbaix.cli import _PALETTES
+    from pourbaix.cli.commands import _PALETTES
+    from pourbaix.plot import draw
 
     assert _PALETTES == tuple(draw.PALETTES)
     svg = tmp_path / "fe-grey.svg"
@@ -148,6 +162,12 @@ def test_map_palette_option(tmp_path, capsys):
     text = svg.read_text(encoding="utf-8")
     # the grey palette's immunity tint fills the Fe domain; no tint of the default palette is used
     assert draw.PALETTES["grey"]["immunity"][0] in text
-    assert not any(c in text for cs in draw.PALETTES["default"].values() for c in (cs if isinstance(cs, tuple) else (cs,)))
-    code, out, err = run(capsys, "map", "Fe", "--palette", "sepia", "--out", str(tmp_path / "x.svg"))
+    assert not any(
+        c in text
+        for cs in draw.PALETTES["default"].values()
+        for c in (cs if isinstance(cs, tuple) else (cs,))
+    )
+    code, out, err = run(
+        capsys, "map", "Fe", "--palette", "sepia", "--out", str(tmp_path / "x.svg")
+    )
     assert code == 2 and "invalid choice" in err and not (tmp_path / "x.svg").exists()

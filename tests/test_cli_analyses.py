@@ -5,8 +5,8 @@ from pathlib import Path
 
 import pytest
 
-from pourbaix.cli import main
-from pourbaix.data import load_species
+from pourbaix.cli.commands import main
+from pourbaix.tables.species import load_species
 
 FIELD = Path(__file__).parent / "data" / "field"
 

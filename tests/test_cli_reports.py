@@ -1,6 +1,6 @@
 """--report on the analysis commands: the report carries the analysis, the map's tables and the cautions.
 
-Each command is run once through ``pourbaix.cli.main`` and its HTML (or Markdown) report read back
+Each command is run once through ``pourbaix.cli.commands.main`` and its HTML (or Markdown) report read back
 as text; bad report paths exit 2 before anything is computed or written.
 """
 
@@ -11,7 +11,7 @@ import re
 
 import pytest
 
-from pourbaix.cli import main
+from pourbaix.cli.commands import main
 
 K25 = 8.314462618 * 298.15 * math.log(10) / 96485.33212  # R T ln10 / F at 25 °C (CODATA 2018)
 

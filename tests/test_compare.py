@@ -3,9 +3,9 @@
 import pytest
 
 from pourbaix.analyses.compare import compare_maps
-from pourbaix.data import load_species
-from pourbaix.domain_map import compute_map
 from pourbaix.errors import OptionError
+from pourbaix.maps.domain_map import compute_map
+from pourbaix.tables.species import load_species
 
 F = 96485.33212  # C/mol (CODATA 2018)
 

@@ -1,4 +1,4 @@
-"""Tests for pourbaix.data: validation of species tables, user overrides, data sets.
+"""Tests for pourbaix.tables.species: validation of species tables, user overrides, data sets.
 
 The malformed fixture files live in tests/data/. Facts used as checks:
 - the species-table columns and rules of DEVELOPERS.md ("Species tables");
@@ -15,8 +15,10 @@ from pathlib import Path
 
 import pytest
 
-import pourbaix.data as data_mod
-from pourbaix.data import (
+import pourbaix.tables.species as data_mod
+from pourbaix.errors import DataFileError, OptionError, PourbaixError, UnknownSpeciesError
+from pourbaix.tables.formula import ELEMENTS, PHASES
+from pourbaix.tables.species import (
     COLUMNS,
     Species,
     SpeciesTable,
@@ -26,8 +28,6 @@ from pourbaix.data import (
     read_sources_file,
     read_species_file,
 )
-from pourbaix.errors import DataFileError, OptionError, PourbaixError, UnknownSpeciesError
-from pourbaix.formula import ELEMENTS, PHASES
 
 DATA = Path(__file__).parent / "data"
 KNOWN = {"NBS82": "Wagman et al. 1982"}

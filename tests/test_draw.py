@@ -1,4 +1,4 @@
-"""Tests of pourbaix.draw: files, label placement, water lines, axes, overlays and field points."""
+"""Tests of pourbaix.plot.draw: files, label placement, water lines, axes, overlays and field points."""
 
 import itertools
 import math
@@ -16,9 +16,9 @@ import pytest  # noqa: E402
 import shapely  # noqa: E402
 
 import pourbaix  # noqa: E402
-from pourbaix import draw  # noqa: E402
-from pourbaix.domain_map import Conditions, Entry, build_map  # noqa: E402
 from pourbaix.errors import ConditionsError, ExportError, OptionError  # noqa: E402
+from pourbaix.maps.domain_map import Conditions, Entry, build_map  # noqa: E402
+from pourbaix.plot import draw  # noqa: E402
 
 REPO = Path(__file__).resolve().parents[1]
 
@@ -97,7 +97,7 @@ def assert_no_overlaps(ax):
 
 
 def test_import_does_not_load_matplotlib():
-    code = "import sys, pourbaix.draw; print('matplotlib' in sys.modules)"
+    code = "import sys, pourbaix.plot.draw; print('matplotlib' in sys.modules)"
     out = subprocess.run(
         [sys.executable, "-c", code], capture_output=True, text=True, cwd=REPO, check=True
     )
@@ -106,7 +106,7 @@ def test_import_does_not_load_matplotlib():
 
 def test_backend_left_alone_when_user_chose_one():
     code = (
-        "import matplotlib; matplotlib.use('svg'); import pourbaix, pourbaix.draw as d; "
+        "import matplotlib; matplotlib.use('svg'); import pourbaix, pourbaix.plot.draw as d; "
         "ax = d.draw_map(pourbaix.compute_map('Cu')); print(matplotlib.get_backend())"
     )
     env = {k: v for k, v in os.environ.items() if k != "MPLBACKEND"}
@@ -118,12 +118,12 @@ def test_backend_left_alone_when_user_chose_one():
 
 @pytest.mark.parametrize(("preset", "expected"), [(None, "['Agg']"), ("env", "[]"), ("use", "[]")])
 def test_agg_only_when_no_backend_chosen(preset, expected):
-    # record the backends pourbaix.draw asks for (after any choice the user made)
+    # record the backends pourbaix.plot.draw asks for (after any choice the user made)
     code = (
         ("import matplotlib; matplotlib.use('svg'); " if preset == "use" else "import matplotlib; ")
         + "calls = []; orig = matplotlib.use; "
         + "matplotlib.use = lambda b, **k: (calls.append(b), orig(b, **k)); "
-        + "import pourbaix.draw as d; d._pyplot(); print(calls)"
+        + "import pourbaix.plot.draw as d; d._pyplot(); print(calls)"
     )
     env = {k: v for k, v in os.environ.items() if k != "MPLBACKEND"}
     if preset == "env":

@@ -1,4 +1,4 @@
-"""Tests for pourbaix.electrodes: reference electrodes at temperature and conversions."""
+"""Tests for pourbaix.physics.electrodes: reference electrodes at temperature and conversions."""
 
 import math
 import warnings
@@ -6,9 +6,9 @@ import warnings
 import numpy as np
 import pytest
 
-from pourbaix import electrodes
 from pourbaix.errors import ConditionsError, OptionError
-from pourbaix.thermo import RangeWarning
+from pourbaix.physics import electrodes
+from pourbaix.physics.thermo import RangeWarning
 
 K_B = 1.380649e-23  # J/K, CODATA 2018 exact
 E_CHARGE = 1.602176634e-19  # C, CODATA 2018 exact

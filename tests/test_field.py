@@ -6,8 +6,8 @@ import numpy as np
 import pytest
 
 from pourbaix.analyses.field import field_readings, place_readings, read_field_csv
-from pourbaix.domain_map import compute_map
 from pourbaix.errors import DataFileError, OptionError
+from pourbaix.maps.domain_map import compute_map
 
 DATA = Path(__file__).parent / "data" / "field"
 

@@ -1,4 +1,4 @@
-"""Tests for pourbaix.formula: parsing, canonical text, labels, errors.
+"""Tests for pourbaix.tables.formula: parsing, canonical text, labels, errors.
 
 Expected compositions and charges follow IUPAC formula conventions
 (IUPAC, Nomenclature of Inorganic Chemistry, Recommendations 2005, "Red
@@ -11,7 +11,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from pourbaix.errors import FormulaError, PourbaixError
-from pourbaix.formula import ELEMENTS, Formula, parse_formula
+from pourbaix.tables.formula import ELEMENTS, Formula, parse_formula
 
 # (input, canonical text, composition, charge, phase) -- IUPAC Red Book IR-4 conventions
 VALID = [
@@ -118,7 +118,7 @@ def test_mathtext_and_plain_for_every_embedded_species():
     """Every label of the embedded tables must be valid mathtext and round-trip as plain text."""
     from matplotlib.mathtext import MathTextParser
 
-    from pourbaix.data import available_datasets, load_species
+    from pourbaix.tables.species import available_datasets, load_species
 
     parser = MathTextParser("path")
     seen = set()

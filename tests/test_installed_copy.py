@@ -24,7 +24,7 @@ ROOT = Path(__file__).resolve().parents[1]
 CHECK = """
 import json
 import pourbaix
-import pourbaix.data as d
+import pourbaix.tables.species as d
 t = d.load_species()
 print(json.dumps({
     "file": pourbaix.__file__,

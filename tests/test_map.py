@@ -9,8 +9,8 @@ from shapely import dwithin, points
 from shapely.geometry import Point
 
 from pourbaix import compute_map
-from pourbaix.data import load_species
 from pourbaix.errors import ConditionsError, OptionError, UnknownSpeciesError
+from pourbaix.tables.species import load_species
 
 K25 = 8.314462618 * 298.15 * math.log(10) / 96485.33212  # CODATA 2018 constants: 0.0591597 V
 FARADAY_KJ = 96.48533212
@@ -65,7 +65,9 @@ def test_iron_lines_follow_the_atlas_forms(table):
     # Fe3O4 + 8 H+ + 8 e- = 3 Fe + 4 H2O: Atlas -0.085 - 0.0591 pH
     b = _boundary(m, "Fe", "Fe3O4")
     assert b.slope_v_per_ph == pytest.approx(-K25, abs=1e-9)
-    assert b.e_at_ph0_v == pytest.approx(-0.085, abs=0.005)  # Atlas to 3 decimals; data differ by 2 mV
+    assert b.e_at_ph0_v == pytest.approx(
+        -0.085, abs=0.005
+    )  # Atlas to 3 decimals; data differ by 2 mV
     # 3 Fe2O3 + 2 H+ + 2 e- = 2 Fe3O4 + H2O: Atlas 0.221 - 0.0591 pH; NBS data give 0.214
     b = _boundary(m, "Fe2O3", "Fe3O4")
     assert b.slope_v_per_ph == pytest.approx(-K25, abs=1e-9)
@@ -110,7 +112,9 @@ def test_copper_lines_and_immunity(table):
     m = compute_map("Cu", activity=1e-6)
     b = _boundary(m, "Cu", "Cu^2+")
     e0 = table.get("Cu^2+").dgf_kj_mol / (2 * FARADAY_KJ)
-    assert e0 == pytest.approx(0.340, abs=0.003)  # 0.3419 V, CRC electrochemical series; 0.337 in the Atlas
+    assert e0 == pytest.approx(
+        0.340, abs=0.003
+    )  # 0.3419 V, CRC electrochemical series; 0.337 in the Atlas
     assert b.e_at_ph0_v == pytest.approx(e0 + K25 / 2 * math.log10(1e-6), abs=1e-9)
     b = _boundary(m, "Cu", "Cu2O")
     assert b.e_at_ph0_v == pytest.approx(0.471, abs=0.003)
@@ -131,7 +135,10 @@ def test_zinc_is_amphoteric():
     ZnO, so the solid field appears at 1e-5; at 1e-6 it appears with the
     species set the Atlas used (no neutral complex).
     """
-    for m in (compute_map("Zn", activity=1e-5), compute_map("Zn", activity=1e-6, exclude=["Zn(OH)2(aq)"])):
+    for m in (
+        compute_map("Zn", activity=1e-5),
+        compute_map("Zn", activity=1e-6, exclude=["Zn(OH)2(aq)"]),
+    ):
         # -0.5 V vs SHE lies above Zn/Zn2+ at every pH here
         assert m.probe(4.0, -0.5).state == "corrosion"
         assert m.probe(9.5, -0.5).state == "passivation"
@@ -223,14 +230,34 @@ def test_json_export_follows_map_format(tmp_path):
     doc = json.loads(path.read_text())
     assert doc["format"] == "pourbaix.map" and doc["version"] == 1
     c = doc["conditions"]
-    for key in ("elements", "temperature_c", "pressure_bar", "activities", "ligands", "ratio", "ionic_strength", "reference", "ph_range", "potential_range_v"):
+    for key in (
+        "elements",
+        "temperature_c",
+        "pressure_bar",
+        "activities",
+        "ligands",
+        "ratio",
+        "ionic_strength",
+        "reference",
+        "ph_range",
+        "potential_range_v",
+    ):
         assert key in c
     assert c["elements"] == ["Fe"] and c["activities"] == {"Fe": 1e-6} and c["ratio"] is None
     assert c["reference"]["name"] == "SCE"
     names = {s["name"] for s in doc["species"]}
     assert "H2O" in names and "Fe^2+" in names
     for s in doc["species"]:
-        assert {"name", "phase", "composition", "charge", "dgf_kj_mol", "dg_kj_mol", "activity", "source"} <= set(s)
+        assert {
+            "name",
+            "phase",
+            "composition",
+            "charge",
+            "dgf_kj_mol",
+            "dg_kj_mol",
+            "activity",
+            "source",
+        } <= set(s)
         assert s["phase"] in ("aq", "s", "l", "g")
     total = 0.0
     for d in doc["domains"]:
@@ -285,7 +312,11 @@ def test_never_stable_species_are_reported():
         (dict(elements="Fe", exclude=["Cu^2+"]), UnknownSpeciesError, "not part of the Fe system"),
         (dict(elements="Fe", exclude=["Qq2"]), UnknownSpeciesError, "Qq2"),
         (dict(elements="Fe", metastable="sometimes"), OptionError, "metastable"),
-        (dict(elements="Fe", activity=1e-6, molality=1e-6), OptionError, "either activity or molality"),
+        (
+            dict(elements="Fe", activity=1e-6, molality=1e-6),
+            OptionError,
+            "either activity or molality",
+        ),
     ],
 )
 def test_bad_input_names_the_fault(kwargs, error, match):

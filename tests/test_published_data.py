@@ -27,10 +27,15 @@ from pathlib import Path
 import chemicals
 import pytest
 
-from pourbaix.data import available_datasets, load_species
 from pourbaix.errors import UnknownSpeciesError
-from pourbaix.formula import parse_formula
-from pourbaix.reactions import FARADAY, balance_pair, reaction_gibbs_kj_mol, standard_potential
+from pourbaix.physics.reactions import (
+    FARADAY,
+    balance_pair,
+    reaction_gibbs_kj_mol,
+    standard_potential,
+)
+from pourbaix.tables.formula import parse_formula
+from pourbaix.tables.species import available_datasets, load_species
 
 CRC_DIR = Path(chemicals.__file__).parent
 CRC_IONS = CRC_DIR / "Electrolytes" / "CRC Thermodynamic Properties of Aqueous Ions.tsv"

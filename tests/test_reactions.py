@@ -1,4 +1,4 @@
-"""Tests for pourbaix.reactions: balancing, standard potentials, log K.
+"""Tests for pourbaix.physics.reactions: balancing, standard potentials, log K.
 
 Balanced half-reactions are checked against the equations as printed in the
 electrochemical series (CRC Handbook of Chemistry and Physics, "Electrochemical
@@ -12,10 +12,8 @@ import math
 
 import pytest
 
-from pourbaix.data import Species
 from pourbaix.errors import DataError, PourbaixError
-from pourbaix.formula import parse_formula
-from pourbaix.reactions import (
+from pourbaix.physics.reactions import (
     FARADAY,
     GAS_CONSTANT,
     Reaction,
@@ -24,6 +22,8 @@ from pourbaix.reactions import (
     reaction_gibbs_kj_mol,
     standard_potential,
 )
+from pourbaix.tables.formula import parse_formula
+from pourbaix.tables.species import Species
 
 H2O_DGF = -237.129  # kJ/mol, NBS82 / CODATA89 key value, from memory
 
@@ -194,7 +194,7 @@ def test_wrong_kind_of_reaction():
 
 def test_water_from_table():
     """Without water_dgf, liquid water comes from the table (default: the default data set)."""
-    from pourbaix.data import load_species
+    from pourbaix.tables.species import load_species
 
     t = load_species()
     r = balance_pair(sp("Fe2O3", "s", -742.2), sp("Fe^2+", "aq", -78.9), "Fe")

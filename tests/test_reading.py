@@ -5,8 +5,8 @@ import math
 import pytest
 
 from pourbaix.analyses.reading import CP_CRITERION_V, corrosion_reading, immunity_potential
-from pourbaix.domain_map import compute_map
 from pourbaix.errors import ConditionsError, OptionError
+from pourbaix.maps.domain_map import compute_map
 
 K25 = 8.314462618 * 298.15 * math.log(10) / 96485.33212  # R T ln10 / F at 25 °C (CODATA 2018)
 

@@ -1,4 +1,4 @@
-"""Tests of pourbaix.report: HTML and Markdown reports, escaping, atomic writing, a real browser."""
+"""Tests of pourbaix.report.document: HTML and Markdown reports, escaping, atomic writing, a real browser."""
 
 from __future__ import annotations
 
@@ -14,11 +14,11 @@ from html.parser import HTMLParser
 import numpy as np
 import pytest
 
-from pourbaix import export
-from pourbaix.domain_map import CAUTION, compute_map
+from pourbaix import outputs as export
 from pourbaix.errors import ExportError, OptionError
-from pourbaix.lines import boundary_equations
-from pourbaix.report import (
+from pourbaix.maps.domain_map import CAUTION, compute_map
+from pourbaix.maps.lines import boundary_equations
+from pourbaix.report.document import (
     REPORT_CAUTIONS,
     add_report_option,
     render_report,
@@ -443,7 +443,7 @@ def test_cli_hook(fe60, tmp_path, capsys):
     # the command's own figure is used when given (and not closed: it belongs to the caller)
     import matplotlib.pyplot as plt
 
-    from pourbaix.draw import draw_map
+    from pourbaix.plot.draw import draw_map
 
     ax = draw_map(fe60, title="Figure given by the command")
     write_report_from_args(a, fe60, figure=ax)
@@ -507,7 +507,7 @@ def test_report_in_headless_chromium(tmp_path):
 
     # Each label is real SVG text, typeset with Unicode sub- and superscripts (Cu₂O, Cu²⁺);
     # compare the glyphs of each <text>, read as plain digits and signs, as a multiset.
-    plain = str.maketrans("₀₁₂₃₄₅₆₇₈₉⁰¹²³⁴⁵⁶⁷⁸⁹⁺⁻−", "0123456789" "0123456789" "+--")
+    plain = str.maketrans("₀₁₂₃₄₅₆₇₈₉⁰¹²³⁴⁵⁶⁷⁸⁹⁺⁻−", "01234567890123456789+--")
 
     def glyphs(s):
         return "".join(sorted(s.translate(plain)))
@@ -532,8 +532,8 @@ def test_report_in_headless_chromium(tmp_path):
     rgb = np.asarray(Image.open(shot).convert("RGB")).astype(int)
     assert rgb.shape[:2] == (2400, 1200)
     assert rgb.std() > 20, "screenshot is blank or uniform"
-    # the figure's fills (pourbaix.draw.PALETTES) must be on screen: passivation and immunity tints
-    from pourbaix.draw import PALETTES
+    # the figure's fills (pourbaix.plot.draw.PALETTES) must be on screen: passivation and immunity tints
+    from pourbaix.plot.draw import PALETTES
 
     def count(hex_colour, tol=3):
         target = np.array([int(hex_colour[i : i + 2], 16) for i in (1, 3, 5)])

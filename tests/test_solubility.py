@@ -14,9 +14,9 @@ from pourbaix.analyses.solubility import (
     solubility_minimum,
     solubility_region,
 )
-from pourbaix.data import load_species
-from pourbaix.domain_map import compute_map
 from pourbaix.errors import ConditionsError, OptionError
+from pourbaix.maps.domain_map import compute_map
+from pourbaix.tables.species import load_species
 
 # CODATA 2018 exact/recommended constants (independent of the package's own)
 R = 8.314462618  # J/(mol K)
@@ -228,7 +228,11 @@ def test_zinc_oxide_shows_from_the_activity_of_its_neutral_complex():
     log K = -5.75 (from memory): the tables and that source agree to 0.02.
     """
     t = load_species()
-    d_rg = t.get("Zn(OH)2", "aq").dgf_kj_mol - t.get("ZnO", "s").dgf_kj_mol - t.get("H2O", "l").dgf_kj_mol
+    d_rg = (
+        t.get("Zn(OH)2", "aq").dgf_kj_mol
+        - t.get("ZnO", "s").dgf_kj_mol
+        - t.get("H2O", "l").dgf_kj_mol
+    )
     log_k = -d_rg / RT_LN10_KJ
     assert log_k == pytest.approx(11.15 - 16.9, abs=0.02)  # Baes & Mesmer 1976, from memory
     onset = solid_onset(compute_map("Zn", activity=1e-6))

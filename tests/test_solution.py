@@ -1,4 +1,4 @@
-"""Tests for pourbaix.solution: ionic strength, backgrounds, activity models."""
+"""Tests for pourbaix.physics.solution: ionic strength, backgrounds, activity models."""
 
 import math
 import warnings
@@ -7,9 +7,9 @@ import chempy.electrolytes as ce
 import numpy as np
 import pytest
 
-from pourbaix import solution
 from pourbaix.errors import ConditionsError, FormulaError, OptionError
-from pourbaix.thermo import RangeWarning, water_properties
+from pourbaix.physics import solution
+from pourbaix.physics.thermo import RangeWarning, water_properties
 
 # ----------------------------------------------------------------- ionic strength
 
@@ -145,7 +145,7 @@ def test_bdot_table():
 # ----------------------------------------------------------------- log gamma vs chempy
 
 
-@pytest.mark.filterwarnings("ignore::pourbaix.thermo.RangeWarning")  # I = 0.3 > EDH's 0.1
+@pytest.mark.filterwarnings("ignore::pourbaix.physics.thermo.RangeWarning")  # I = 0.3 > EDH's 0.1
 @pytest.mark.parametrize("t", [25.0, 60.0, 150.0])
 @pytest.mark.parametrize("ionic", [0.001, 0.05, 0.3])
 @pytest.mark.parametrize("z", [1, -2, 3])

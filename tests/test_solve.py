@@ -12,7 +12,7 @@ from hypothesis import strategies as st
 from shapely.geometry import Polygon
 
 from pourbaix.errors import ConditionsError
-from pourbaix.solve import clip_domains, lower_envelope
+from pourbaix.solve.envelope import clip_domains, lower_envelope
 
 WINDOW = (-2.0, 16.0, -2.0, 2.0)
 WINDOW_AREA = 18.0 * 4.0
@@ -68,7 +68,11 @@ def test_domain_holding_a_point_is_the_argmin(planes, seed):
     env = lower_envelope(planes, WINDOW)
     rng = np.random.default_rng(seed)
     pts = np.column_stack([rng.uniform(-2, 16, 200), rng.uniform(-2, 2, 200)])
-    vals = planes[:, 0][None, :] + np.outer(pts[:, 0], planes[:, 1]) + np.outer(pts[:, 1], planes[:, 2])
+    vals = (
+        planes[:, 0][None, :]
+        + np.outer(pts[:, 0], planes[:, 1])
+        + np.outer(pts[:, 1], planes[:, 2])
+    )
     best = vals.min(axis=1)
     polys = {i: Polygon(p) for i, p in enumerate(env.polygons) if p is not None}
     from shapely.geometry import Point
@@ -113,7 +117,9 @@ def test_qhull_route_equals_clipping_route(planes):
 
 def test_grid_argmin_agrees_away_from_boundaries():
     rng = np.random.default_rng(7)
-    planes = np.column_stack([rng.uniform(-1, 1, 30), -0.05916 * rng.integers(0, 8, 30), -rng.integers(0, 6, 30)])
+    planes = np.column_stack(
+        [rng.uniform(-1, 1, 30), -0.05916 * rng.integers(0, 8, 30), -rng.integers(0, 6, 30)]
+    )
     env = lower_envelope(planes, WINDOW)
     xs, ys = np.meshgrid(np.linspace(-2, 16, 181), np.linspace(-2, 2, 161))
     x, y = xs.ravel(), ys.ravel()
@@ -199,7 +205,12 @@ def test_vertical_boundary_is_reported_by_ph():
 
 @pytest.mark.parametrize(
     "window, match",
-    [((0, 0, -1, 1), "pH range must increase"), ((0, 14, 1, -1), "potential range must increase"), ((0, np.inf, -1, 1), "finite"), ((0, 14), "four numbers")],
+    [
+        ((0, 0, -1, 1), "pH range must increase"),
+        ((0, 14, 1, -1), "potential range must increase"),
+        ((0, np.inf, -1, 1), "finite"),
+        ((0, 14), "four numbers"),
+    ],
 )
 def test_bad_windows_are_refused(window, match):
     with pytest.raises(ConditionsError, match=match):
@@ -215,7 +226,7 @@ def test_non_finite_plane_is_refused():
 @given(plane_sets(max_n=20))
 def test_enumeration_and_qhull_vertex_routes_agree(planes):
     """The small-N route (candidate enumeration) and the large-N route (Qhull) give one answer."""
-    import pourbaix.solve as solve_module
+    import pourbaix.solve.envelope as solve_module
 
     small = lower_envelope(planes, WINDOW)
     saved = solve_module._SMALL_N
@@ -235,19 +246,23 @@ def test_clip_halfplane_matches_shapely():
     # Reference: GEOS intersection of the polygon with a large box on the kept side of the line.
     from shapely.geometry import Polygon as ShapelyPolygon
 
-    from pourbaix.solve import clip_halfplane
+    from pourbaix.solve.envelope import clip_halfplane
 
     rng = np.random.default_rng(7)
     for _ in range(200):
         ang = np.sort(rng.uniform(0, 2 * np.pi, rng.integers(3, 9)))
-        poly = np.column_stack([np.cos(ang), np.sin(ang)]) * rng.uniform(0.5, 3) + rng.uniform(-1, 1, 2)
+        poly = np.column_stack([np.cos(ang), np.sin(ang)]) * rng.uniform(0.5, 3) + rng.uniform(
+            -1, 1, 2
+        )
         d = rng.normal(size=3)
         got = clip_halfplane(poly, d)
         # kept side d0 + d1 x + d2 y <= 0 as a big polygon: points far along -normal from the line
         n = d[1:] / np.hypot(*d[1:])
         p0 = -d[0] * d[1:] / (d[1:] @ d[1:])  # a point on the line
         t = np.array([-n[1], n[0]])
-        side = ShapelyPolygon([p0 + 50 * t, p0 - 50 * t, p0 - 50 * t - 50 * n, p0 + 50 * t - 50 * n])
+        side = ShapelyPolygon(
+            [p0 + 50 * t, p0 - 50 * t, p0 - 50 * t - 50 * n, p0 + 50 * t - 50 * n]
+        )
         want = ShapelyPolygon(poly).intersection(side).area
         assert (0.0 if got is None else ShapelyPolygon(got).area) == pytest.approx(want, abs=1e-9)
     square = np.array([[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]])

@@ -19,9 +19,9 @@ from scipy.optimize import linprog
 from shapely.geometry import Point
 
 from pourbaix import compute_map
-from pourbaix.data import load_species
 from pourbaix.errors import ConditionsError, OptionError, PourbaixError, UnknownSpeciesError
-from pourbaix.systems import compute_ligand_map, ratio_combinations, resolve_ligand
+from pourbaix.maps.systems import compute_ligand_map, ratio_combinations, resolve_ligand
+from pourbaix.tables.species import load_species
 
 # CODATA 2018 constants
 R_KJ = 8.314462618e-3  # kJ/(mol K)
@@ -481,7 +481,7 @@ def test_ligand_reference_states_cancel_at_temperature():
     """At 60 °C the Cu/Cu2S line in the H2S field equals the Nernst line of
     Cu2S + 2 H+ + 2 e- = 2 Cu + H2S(aq) built from apparent Gibbs energies at T
     (Benson-Helgeson convention; DESIGN §2.6), whatever sulfur's own G(T) is."""
-    from pourbaix import thermo
+    from pourbaix.physics import thermo
 
     t = 60.0
     m = compute_map("Cu", ligands={"S": 1e-3}, temperature_c=t, table=TABLE)
@@ -499,7 +499,7 @@ def test_ligand_reference_states_cancel_at_temperature():
 def test_ratio_map_at_temperature_agrees_with_linprog():
     """Fe:Cr 3:1 at 80 °C: the linear programme over apparent Gibbs energies at T (Benson-Helgeson
     convention; DESIGN §2.6), every species formed from the metals' own reference states at T."""
-    from pourbaix import thermo
+    from pourbaix.physics import thermo
 
     t = 80.0
     m = compute_map(["Fe", "Cr"], ratio=(3, 1), temperature_c=t, table=TABLE)

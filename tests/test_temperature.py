@@ -5,10 +5,11 @@ import math
 import numpy as np
 import pytest
 
-from pourbaix import compute_map, energies, thermo
-from pourbaix.data import load_species
-from pourbaix.domain_map import compute_sweep
+from pourbaix import compute_map
 from pourbaix.errors import ConditionsError, OptionError
+from pourbaix.maps.domain_map import compute_sweep
+from pourbaix.physics import energies, thermo
+from pourbaix.tables.species import load_species
 
 
 def _nernst_exact(t_c):
@@ -40,12 +41,16 @@ def test_water_lines_follow_the_nernst_factor(t_c):
     k = _nernst_exact(t_c)
     assert m.water["oxygen"][1] == pytest.approx(-k, rel=1e-9)
     assert m.water["hydrogen"][1] == pytest.approx(-k, rel=1e-9)
-    assert m.water["hydrogen"][0] == pytest.approx(0.0, abs=1e-12)  # SHE is zero at every T (convention)
+    assert m.water["hydrogen"][0] == pytest.approx(
+        0.0, abs=1e-12
+    )  # SHE is zero at every T (convention)
 
 
 def test_water_window_shrinks_with_temperature():
     # E0(O2/H2O) falls by about 0.85 mV/K (Bard, Parsons & Jordan 1985, dE0/dT = -0.846 mV/K; from memory)
-    widths = [compute_map("Fe", temperature_c=t).water["oxygen"][0] for t in (25.0, 60.0, 100.0, 200.0)]
+    widths = [
+        compute_map("Fe", temperature_c=t).water["oxygen"][0] for t in (25.0, 60.0, 100.0, 200.0)
+    ]
     assert all(a > b for a, b in zip(widths, widths[1:], strict=False))
     assert (widths[1] - widths[0]) / 35.0 == pytest.approx(-0.846e-3, abs=0.02e-3)
 
@@ -108,10 +113,12 @@ def test_background_electrolyte_sets_ionic_strength():
 def test_reference_electrode_at_temperature():
     # The map reads its reference at the map's temperature (published coefficients are checked in
     # tests/test_electrodes.py); RHE at T: E(SHE) = E(RHE) - k(T) pH by definition.
-    from pourbaix import electrodes
+    from pourbaix.physics import electrodes
 
     m = compute_map("Cu", temperature_c=60.0, reference="SCE")
-    assert m.conditions.reference_offset_v == pytest.approx(electrodes.reference_offset("SCE", 60.0), abs=1e-12)
+    assert m.conditions.reference_offset_v == pytest.approx(
+        electrodes.reference_offset("SCE", 60.0), abs=1e-12
+    )
     m = compute_map("Cu", temperature_c=60.0, reference="RHE")
     assert m.conditions.reference_slope_v_per_ph == pytest.approx(-_nernst_exact(60.0), rel=1e-9)
 
@@ -124,7 +131,11 @@ def test_reference_electrode_at_temperature():
         (dict(molality=-1e-6), ConditionsError, "molality"),
         (dict(molality=1e-6, background="KryptonCl=0.1"), OptionError, "KryptonCl"),
         (dict(molality=1e-6, ionic_strength=0.1, activity_model="sorcery"), OptionError, "sorcery"),
-        (dict(molality=1e-6, ionic_strength=5.0, activity_model="davies"), ConditionsError, "davies|Davies"),
+        (
+            dict(molality=1e-6, ionic_strength=5.0, activity_model="davies"),
+            ConditionsError,
+            "davies|Davies",
+        ),
         (dict(temperature_c=150.0, pressure_bar=2.0), ConditionsError, "boil"),
     ],
 )
@@ -135,7 +146,9 @@ def test_bad_conditions_are_refused(kwargs, error, match):
 
 def test_sweep_over_activities():
     maps = compute_sweep("Cu", activities=[1e-6, 1e-4])
-    b = [next(x for x in m.boundaries if set(x.between) == {"Cu", "Cu^2+"}).e_at_ph0_v for m in maps]
+    b = [
+        next(x for x in m.boundaries if set(x.between) == {"Cu", "Cu^2+"}).e_at_ph0_v for m in maps
+    ]
     # Nernst: two decades of Cu2+ activity move Cu2+/Cu by 2 * k/2 = 59.16 mV
     assert b[1] - b[0] == pytest.approx(_nernst_exact(25.0), abs=1e-9)
 

@@ -1,4 +1,4 @@
-"""Tests for pourbaix.thermo: Nernst factor, apparent Gibbs energies, water at T."""
+"""Tests for pourbaix.physics.thermo: Nernst factor, apparent Gibbs energies, water at T."""
 
 import math
 import warnings
@@ -8,10 +8,10 @@ import numpy as np
 import pytest
 from scipy.integrate import quad
 
-from pourbaix import thermo
-from pourbaix.electrodes import agcl_standard_potential
 from pourbaix.errors import ConditionsError, OptionError
-from pourbaix.thermo import RangeWarning
+from pourbaix.physics import thermo
+from pourbaix.physics.electrodes import agcl_standard_potential
+from pourbaix.physics.thermo import RangeWarning
 
 # CODATA 2018 exact defining constants (SI 2019), independent of R and F in thermo.
 K_B = 1.380649e-23  # J/K
@@ -454,7 +454,7 @@ def test_import_does_not_pull_matplotlib_or_iapws():
     import sys
 
     code = (
-        "import sys, pourbaix.thermo, pourbaix.solution, pourbaix.electrodes; "
+        "import sys, pourbaix.physics.thermo, pourbaix.physics.solution, pourbaix.physics.electrodes; "
         "print('matplotlib' in sys.modules, 'iapws' in sys.modules)"
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
@@ -463,7 +463,7 @@ def test_import_does_not_pull_matplotlib_or_iapws():
 
 def test_reference_state_shortcut_equals_the_computed_state():
     # the 25 °C / 1 bar shortcut must be exactly what IAPWS-95, R8-97 and R11-07 give
-    from pourbaix import thermo
+    from pourbaix.physics import thermo
 
     assert thermo.water_properties(25.0) == thermo._water_properties_cached(25.0, 0.1)
     assert thermo.water_properties(25.0, 1.0) == thermo._water_properties_cached(25.0, 0.1)

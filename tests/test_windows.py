@@ -6,9 +6,9 @@ import shapely
 
 from pourbaix.analyses.solubility import solubility
 from pourbaix.analyses.windows import leach_window
-from pourbaix.data import load_species
-from pourbaix.domain_map import compute_map
 from pourbaix.errors import ConditionsError, OptionError
+from pourbaix.maps.domain_map import compute_map
+from pourbaix.tables.species import load_species
 
 SULFATE = {"S": 0.1}
 

@@ -1,8 +1,8 @@
 """Analyses built on exact maps: solubility, leach windows, field readings, corrosion readings, comparisons.
 
-Every function here works on :class:`pourbaix.domain_map.DomainMap` objects (or
+Every function here works on :class:`pourbaix.maps.domain_map.DomainMap` objects (or
 computes one from an element and the keyword conditions of
-:func:`pourbaix.domain_map.compute_map`). Drawing helpers import matplotlib
+:func:`pourbaix.maps.domain_map.compute_map`). Drawing helpers import matplotlib
 only when called.
 """
 
@@ -10,7 +10,7 @@ import importlib
 
 # ``solubility`` names both a submodule and its main function; bind the function now,
 # before any other import of the submodule can leave the module under that name.
-from .solubility import solubility
+from pourbaix.analyses.solubility import solubility
 
 # Each public name and the submodule that defines it; submodules load on first use so
 # the command line (which only registers the analysis commands) stays quick to start.

@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
-from ..errors import OptionError
+from pourbaix.errors import OptionError
 
 __all__ = ["BoundaryShift", "MapComparison", "compare_maps", "draw_comparison"]
 
@@ -189,7 +189,7 @@ def compare_maps(map_a, map_b, *, ph=None, labels=None):
 
     Examples
     --------
-    >>> from pourbaix.domain_map import compute_map
+    >>> from pourbaix.maps.domain_map import compute_map
     >>> cmp = compare_maps(compute_map("Cu", activity=1e-6), compute_map("Cu", activity=1e-4))
     >>> round(cmp.shift("Cu", "Cu^2+").shift_mv, 1)
     59.2
@@ -259,7 +259,7 @@ def compare_maps(map_a, map_b, *, ph=None, labels=None):
 
 
 def draw_comparison(comparison, ax=None):
-    """Overlay the two maps' boundaries (``pourbaix.draw.draw_overlay``).
+    """Overlay the two maps' boundaries (``pourbaix.plot.draw.draw_overlay``).
 
     Parameters
     ----------
@@ -272,7 +272,7 @@ def draw_comparison(comparison, ax=None):
     -------
     matplotlib.axes.Axes
     """
-    from .. import draw
+    from pourbaix.plot import draw
 
     return draw.draw_overlay(
         [comparison.map_a, comparison.map_b], ax=ax, labels=[comparison.label_a, comparison.label_b]

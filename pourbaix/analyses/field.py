@@ -9,7 +9,7 @@ from pathlib import Path
 
 import numpy as np
 
-from ..errors import DataFileError, OptionError
+from pourbaix.errors import DataFileError, OptionError
 
 __all__ = [
     "FieldReading",
@@ -227,8 +227,8 @@ def read_field_csv(path):
     >>> len(d.rows), str(d.problems[0])
     (1, "line 3, column potential_v: 'abc' is not a number")
     """
-    from ..electrodes import get_reference
-    from ..errors import PourbaixError
+    from pourbaix.errors import PourbaixError
+    from pourbaix.physics.electrodes import get_reference
 
     p = Path(path)
     try:
@@ -397,7 +397,7 @@ def place_readings(dmap, data):
     Notes
     -----
     E(vs SHE) = E(vs electrode) + offset(electrode, T of the reading), with
-    the electrode's published temperature dependence (pourbaix.electrodes;
+    the electrode's published temperature dependence (pourbaix.physics.electrodes;
     RHE: E_SHE = E_RHE - k_T pH, Nernst). The point is then expressed vs the
     map's reference and classified with the map's exact probe; the map is
     for its own temperature, and a reading taken more than
@@ -405,7 +405,7 @@ def place_readings(dmap, data):
     """
     import warnings
 
-    from ..electrodes import to_she
+    from pourbaix.physics.electrodes import to_she
 
     c = dmap.conditions
     out = []
@@ -473,7 +473,7 @@ def field_readings(dmap_or_element, path, **conditions):
     path : str or Path
         The CSV file (see :func:`read_field_csv`).
     **conditions
-        Keyword arguments of :func:`pourbaix.domain_map.compute_map`.
+        Keyword arguments of :func:`pourbaix.maps.domain_map.compute_map`.
 
     Returns
     -------
@@ -487,7 +487,7 @@ def field_readings(dmap_or_element, path, **conditions):
     OptionError
         If conditions are given with a computed map.
     """
-    from ..domain_map import DomainMap, compute_map
+    from pourbaix.maps.domain_map import DomainMap, compute_map
 
     if isinstance(dmap_or_element, DomainMap):
         if conditions:
@@ -519,7 +519,7 @@ def draw_field(dmap, data, ax=None, *, labels=True, reading=False):
     -------
     matplotlib.axes.Axes
     """
-    from .. import draw
+    from pourbaix.plot import draw
 
     rows = [r for r in data.rows if r.potential_v_map is not None]
     if len(rows) != len(data.rows):

@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from ..errors import ConditionsError, OptionError
+from pourbaix.errors import ConditionsError, OptionError
 
 __all__ = [
     "CP_CRITERION_V",
@@ -145,7 +145,7 @@ def immunity_potential(dmap, ph, potential_v=0.0, max_steps=500):
 
     Examples
     --------
-    >>> from pourbaix.domain_map import compute_map
+    >>> from pourbaix.maps.domain_map import compute_map
     >>> round(immunity_potential(compute_map("Cu"), 2.0), 3)
     0.162
     """
@@ -192,7 +192,7 @@ def corrosion_reading(dmap_or_element, ph, potential_v, reference="SHE", **condi
     reference : str
         Electrode of the measurement (e.g. "Cu/CuSO4", "SCE", "Ag/AgCl-seawater").
     **conditions
-        Keyword arguments of :func:`pourbaix.domain_map.compute_map`
+        Keyword arguments of :func:`pourbaix.maps.domain_map.compute_map`
         (temperature_c, activity, ligands ...).
 
     Returns
@@ -215,7 +215,7 @@ def corrosion_reading(dmap_or_element, ph, potential_v, reference="SHE", **condi
     immunity domain (:func:`immunity_potential`). For iron, the usual
     cathodic-protection criterion (-0.85 V vs Cu/CuSO4; common practice) is
     checked alongside with the electrode's published offset at the map's
-    temperature (pourbaix.electrodes).
+    temperature (pourbaix.physics.electrodes).
 
     Examples
     --------
@@ -225,8 +225,8 @@ def corrosion_reading(dmap_or_element, ph, potential_v, reference="SHE", **condi
     """
     import warnings
 
-    from ..domain_map import DomainMap, compute_map
-    from ..electrodes import from_she, get_reference, to_she
+    from pourbaix.maps.domain_map import DomainMap, compute_map
+    from pourbaix.physics.electrodes import from_she, get_reference, to_she
 
     try:
         ph = float(ph)
@@ -285,7 +285,7 @@ def corrosion_reading(dmap_or_element, ph, potential_v, reference="SHE", **condi
                 "the -0.85 V criterion is stated for carbon steel; alloys may call for other criteria"
             )
         cautions.append(CP_CAUTION)
-    from ..domain_map import CAUTION
+    from pourbaix.maps.domain_map import CAUTION
 
     cautions.append(CAUTION)
     return CorrosionReading(

@@ -29,9 +29,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..errors import ConditionsError, OptionError
-from ..formula import _TO_SUPER
-from ..solve import clip_halfplane
+from pourbaix.errors import ConditionsError, OptionError
+from pourbaix.solve.envelope import clip_halfplane
+from pourbaix.tables.formula import _TO_SUPER
 
 __all__ = [
     "DEFAULT_LEVELS",
@@ -83,7 +83,7 @@ class _Model:
 
 
 def _get_map(dmap_or_element, conditions):
-    from ..domain_map import DomainMap, compute_map
+    from pourbaix.maps.domain_map import DomainMap, compute_map
 
     if isinstance(dmap_or_element, DomainMap):
         if conditions:
@@ -96,8 +96,8 @@ def _get_map(dmap_or_element, conditions):
 
 
 def _model(dmap):
-    from ..domain_map import species_id, species_label, to_frame
-    from ..thermo import nernst_factor
+    from pourbaix.maps.domain_map import species_id, species_label, to_frame
+    from pourbaix.physics.thermo import nernst_factor
 
     c = dmap.conditions
     if len(c.elements) != 1 or c.ratio is not None:
@@ -127,7 +127,7 @@ def _model(dmap):
     log_g_map = np.log10([se.gamma for se in rows])
     log_g = log_g_map.copy()
     if c.ionic_strength and c.ionic_strength > 0 and c.activity_model:
-        from ..solution import log_gamma
+        from pourbaix.physics.solution import log_gamma
 
         charges = np.array([se.species.charge for se in rows], dtype=float)
         with warnings.catch_warnings():
@@ -401,7 +401,7 @@ def solubility(dmap_or_element, ph, potential_v, **conditions):
     potential_v : float or array_like
         Potential [V vs the map's reference].
     **conditions
-        Keyword arguments of :func:`pourbaix.domain_map.compute_map` when an
+        Keyword arguments of :func:`pourbaix.maps.domain_map.compute_map` when an
         element is given (temperature_c, ligands, reference, ionic_strength ...).
 
     Returns
@@ -486,7 +486,7 @@ def solubility_curve(dmap, ph, potential_v=None, along=None):
 
     Examples
     --------
-    >>> from pourbaix.domain_map import compute_map
+    >>> from pourbaix.maps.domain_map import compute_map
     >>> r = solubility_curve(compute_map("Zn"), [6.0, 9.5, 13.0], potential_v=0.0)
     >>> [round(float(v), 1) for v in r.log10_total]
     [-0.8, -5.7, -3.8]
@@ -522,7 +522,7 @@ def solubility_minimum(dmap, potential_v=None, along=None, ph_range=None):
 
     Examples
     --------
-    >>> from pourbaix.domain_map import compute_map
+    >>> from pourbaix.maps.domain_map import compute_map
     >>> ph, r = solubility_minimum(compute_map("Zn"), potential_v=0.0)
     >>> round(ph, 1), r.solid
     (9.8, 'ZnO')
@@ -621,7 +621,7 @@ def solid_onset(dmap, n_ph=241, n_potential=201):
 
     Examples
     --------
-    >>> from pourbaix.domain_map import compute_map
+    >>> from pourbaix.maps.domain_map import compute_map
     >>> onset = solid_onset(compute_map("Zn", activity=1e-6))
     >>> onset.solid, onset.shown, f"{onset.activity:.1e}"
     ('ZnO', False, '1.8e-06')
@@ -644,7 +644,11 @@ def solid_onset(dmap, n_ph=241, n_potential=201):
         return None
     si = np.where(compound, r.saturation_index, -np.inf)
     k = int(np.argmax(si))
-    a_set = dmap.conditions.molality if dmap.conditions.molality is not None else dmap.conditions.activity
+    a_set = (
+        dmap.conditions.molality
+        if dmap.conditions.molality is not None
+        else dmap.conditions.activity
+    )
     near = (si >= si[k] - 0.01) & (r.solid == r.solid[k])
     return SolidOnset(
         solid=str(r.solid[k]),
@@ -673,12 +677,16 @@ def missing_solid_note(dmap):
 
     Examples
     --------
-    >>> from pourbaix.domain_map import compute_map
+    >>> from pourbaix.maps.domain_map import compute_map
     >>> print(missing_solid_note(compute_map("Zn", activity=1e-6)))  # doctest: +ELLIPSIS
     no solid compound of Zn is stable on this map at activity 1e-06; the first to show would be ZnO ...
     """
     c = dmap.conditions
-    if len(c.elements) != 1 or c.ratio is not None or any(d.state == "passivation" for d in dmap.domains):
+    if (
+        len(c.elements) != 1
+        or c.ratio is not None
+        or any(d.state == "passivation" for d in dmap.domains)
+    ):
         return None
     try:
         onset = solid_onset(dmap)
@@ -731,7 +739,7 @@ def _pieces(model):
     import shapely
     from shapely.geometry import Polygon, box
 
-    from .. import solve
+    from pourbaix.solve import envelope as solve
 
     x0, x1, y0, y1 = model.window
     area_tol = 1e-12 * (x1 - x0) * (y1 - y0)
@@ -1058,7 +1066,7 @@ def solubility_region(dmap, level, *, side="above", basis="total", tolerance=DEF
 
     Examples
     --------
-    >>> from pourbaix.domain_map import compute_map
+    >>> from pourbaix.maps.domain_map import compute_map
     >>> r = solubility_region(compute_map("Zn"), 1e-5, side="below")
     >>> r.contains(__import__("shapely").Point(9.5, 0.0))
     True
@@ -1112,7 +1120,7 @@ def solubility_lines(dmap, levels=DEFAULT_LEVELS, *, basis="total", tolerance=DE
 
     Examples
     --------
-    >>> from pourbaix.domain_map import compute_map
+    >>> from pourbaix.maps.domain_map import compute_map
     >>> lines = solubility_lines(compute_map("Zn"), [1e-6])
     >>> len(lines[1e-6]) >= 1
     True
@@ -1166,7 +1174,7 @@ def add_solubility_lines(
     Parameters
     ----------
     ax : matplotlib.axes.Axes
-        Axes of a map of ``dmap`` (e.g. from ``pourbaix.draw.draw_map``).
+        Axes of a map of ``dmap`` (e.g. from ``pourbaix.plot.draw.draw_map``).
     dmap : DomainMap
         The single-element map drawn there.
     levels : sequence of float

@@ -7,8 +7,14 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..errors import ConditionsError, OptionError
-from .solubility import DEFAULT_TOLERANCE, _check_basis, _check_level, solubility, solubility_region
+from pourbaix.analyses.solubility import (
+    DEFAULT_TOLERANCE,
+    _check_basis,
+    _check_level,
+    solubility,
+    solubility_region,
+)
+from pourbaix.errors import ConditionsError, OptionError
 
 __all__ = ["LeachWindow", "leach_window", "draw_window"]
 
@@ -90,7 +96,7 @@ class LeachWindow:
         list of dict
             ``area`` [pH V], ``ph_bounds`` and ``potential_bounds_v`` [V] of each part.
         """
-        from .solubility import _polygon_parts
+        from pourbaix.analyses.solubility import _polygon_parts
 
         parts = sorted(_polygon_parts(self.region), key=lambda g: -g.area)
         return [
@@ -132,7 +138,7 @@ class LeachWindow:
         -------
         dict
         """
-        from .solubility import _polygon_parts
+        from pourbaix.analyses.solubility import _polygon_parts
 
         rings = []
         for part in _polygon_parts(self.region):
@@ -219,7 +225,7 @@ def _best_point(region, k):
     from shapely import affinity
     from shapely.ops import polylabel
 
-    from .solubility import _polygon_parts
+    from pourbaix.analyses.solubility import _polygon_parts
 
     best, radius = None, -1.0
     for part in _polygon_parts(region):
@@ -333,7 +339,7 @@ def leach_window(
         Element -> precomputed single-element DomainMap (same window and
         reference); then no ``conditions`` may be given.
     **conditions
-        Keyword arguments of :func:`pourbaix.domain_map.compute_map`
+        Keyword arguments of :func:`pourbaix.maps.domain_map.compute_map`
         (temperature_c, ligands, reference, ph_range, potential_range_v ...),
         used for every element's map.
 
@@ -403,8 +409,8 @@ def leach_window(
             raise OptionError(f"maps: no map given for {', '.join(missing)}")
         maps = {el: maps[el] for el in (target, *keep)}
     else:
-        from ..data import load_species
-        from ..domain_map import compute_map
+        from pourbaix.maps.domain_map import compute_map
+        from pourbaix.tables.species import load_species
 
         if "table" not in conditions:
             conditions["table"] = load_species(
@@ -421,7 +427,7 @@ def leach_window(
             "the maps of a window must share one pH/potential window and one reference electrode"
         )
 
-    from ..thermo import nernst_factor
+    from pourbaix.physics.thermo import nernst_factor
 
     k = float(nernst_factor(tmap.conditions.temperature_c))
     regions = {
@@ -503,7 +509,7 @@ def _add_geometry(ax, geom, **kw):
     from matplotlib.patches import PathPatch
     from matplotlib.path import Path
 
-    from .solubility import _polygon_parts
+    from pourbaix.analyses.solubility import _polygon_parts
 
     for part in _polygon_parts(geom):
         verts, codes = [], []
@@ -535,8 +541,8 @@ def draw_window(window, ax=None, *, lines=True):
     from matplotlib.lines import Line2D
     from matplotlib.patches import Patch
 
-    from .. import draw
-    from .solubility import add_solubility_lines
+    from pourbaix.analyses.solubility import add_solubility_lines
+    from pourbaix.plot import draw
 
     tmap = window.maps[window.dissolve]
     keep = ", ".join(f"{el} ≤ {window.max_dissolved[el]:g}" for el in window.keep_solid)

@@ -20,7 +20,7 @@ from typing import NamedTuple
 
 import numpy as np
 
-from .errors import ConditionsError, OptionError
+from pourbaix.errors import ConditionsError, OptionError
 
 __all__ = [
     "R",
@@ -765,7 +765,10 @@ def water_properties(temperature_c, pressure_bar=None):
     t = check_temperature(temperature_c)
     if not isinstance(t, float):
         raise ConditionsError("water_properties takes one temperature at a time")
-    if t == T_REF_C and (pressure_bar is None or (isinstance(pressure_bar, int | float) and pressure_bar == P_REF_BAR)):
+    if t == T_REF_C and (
+        pressure_bar is None
+        or (isinstance(pressure_bar, int | float) and pressure_bar == P_REF_BAR)
+    ):
         # the reference state, kept so a 25 °C map needs no IAPWS-95 solve (or its import);
         # tests/test_thermo.py checks it equals the computed state
         return _WATER_AT_25C

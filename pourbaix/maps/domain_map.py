@@ -9,8 +9,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from . import energies, solve
-from .errors import ConditionsError, OptionError, UnknownSpeciesError
+from pourbaix.errors import ConditionsError, OptionError, UnknownSpeciesError
+from pourbaix.physics import energies
+from pourbaix.solve import envelope as solve
 
 __all__ = [
     "Conditions",
@@ -98,11 +99,19 @@ class Conditions:
 
     def to_she(self, ph, potential_v):
         """Convert a potential vs this map's reference to SHE [V]."""
-        return np.asarray(potential_v) + self.reference_offset_v + self.reference_slope_v_per_ph * np.asarray(ph)
+        return (
+            np.asarray(potential_v)
+            + self.reference_offset_v
+            + self.reference_slope_v_per_ph * np.asarray(ph)
+        )
 
     def from_she(self, ph, potential_v):
         """Convert a potential vs SHE to this map's reference [V]."""
-        return np.asarray(potential_v) - self.reference_offset_v - self.reference_slope_v_per_ph * np.asarray(ph)
+        return (
+            np.asarray(potential_v)
+            - self.reference_offset_v
+            - self.reference_slope_v_per_ph * np.asarray(ph)
+        )
 
 
 @dataclass(frozen=True)
@@ -262,7 +271,7 @@ class DomainMap:
     conditions : Conditions
         What the map was computed for.
     species : list of SpeciesEnergy
-        Every species considered, with the values used (see ``pourbaix.energies``).
+        Every species considered, with the values used (see ``pourbaix.physics.energies``).
     entries : list of Entry
         Candidates (species or assemblages) with their planes.
     domains : list of Domain
@@ -303,9 +312,11 @@ class DomainMap:
     def neutral_ph(self):
         """Neutral pH at the map's temperature (pKw / 2)."""
         if self._neutral_ph is None:
-            from . import thermo
+            from pourbaix.physics import thermo
 
-            self._neutral_ph = float(thermo.neutral_ph(self.conditions.temperature_c, self.conditions.pressure_bar))
+            self._neutral_ph = float(
+                thermo.neutral_ph(self.conditions.temperature_c, self.conditions.pressure_bar)
+            )
         return self._neutral_ph
 
     def domain_of(self, name):
@@ -345,7 +356,9 @@ class DomainMap:
         the margins (likewise along pH). This is exact and extends beyond the
         window.
         """
-        ph_a, e_a = np.broadcast_arrays(np.asarray(ph, dtype=float), np.asarray(potential_v, dtype=float))
+        ph_a, e_a = np.broadcast_arrays(
+            np.asarray(ph, dtype=float), np.asarray(potential_v, dtype=float)
+        )
         scalar = ph_a.ndim == 0
         x = ph_a.ravel()
         y = e_a.ravel()
@@ -399,7 +412,13 @@ class DomainMap:
         )
         shape = ph_a.shape
         for k, v in res.items():
-            res[k] = v.reshape(shape) if not scalar else v.reshape(()).item() if v.dtype != object else v[0]
+            res[k] = (
+                v.reshape(shape)
+                if not scalar
+                else v.reshape(()).item()
+                if v.dtype != object
+                else v[0]
+            )
         return ProbeResult(**res)
 
     _active: object = None
@@ -469,7 +488,11 @@ class DomainMap:
                 "reference": {
                     "name": c.reference,
                     "offset_v": c.reference_offset_v,
-                    **({"slope_v_per_ph": c.reference_slope_v_per_ph} if c.reference_slope_v_per_ph else {}),
+                    **(
+                        {"slope_v_per_ph": c.reference_slope_v_per_ph}
+                        if c.reference_slope_v_per_ph
+                        else {}
+                    ),
                 },
                 "ph_range": list(c.ph_range),
                 "potential_range_v": list(c.potential_range_v),
@@ -483,7 +506,8 @@ class DomainMap:
             "domains": domains,
             "boundaries": boundaries,
             "water": {
-                k: {"e_at_ph0_v": round(v[0], 6), "slope_v_per_ph": round(v[1], 8)} for k, v in self.water.items()
+                k: {"e_at_ph0_v": round(v[0], 6), "slope_v_per_ph": round(v[1], 8)}
+                for k, v in self.water.items()
             },
             "never_stable": list(self.never_stable),
             "warnings": list(self.warnings),
@@ -506,7 +530,7 @@ class DomainMap:
         text = json.dumps(self.to_dict(), indent=indent, ensure_ascii=False, allow_nan=False) + "\n"
         if path is None:
             return text
-        from .export import atomic_write_text
+        from pourbaix.outputs import atomic_write_text
 
         atomic_write_text(path, text)
         return path
@@ -555,7 +579,7 @@ class DomainMap:
         text = buf.getvalue()
         if path is None:
             return text
-        from .export import atomic_write_text
+        from pourbaix.outputs import atomic_write_text
 
         atomic_write_text(path, text)
         return path
@@ -628,7 +652,16 @@ def _state_of(sp, element):
     return "passivation"
 
 
-def build_map(conditions, entries, species_energies, water_she, warnings_list, sources, method=None, extra_species=()):
+def build_map(
+    conditions,
+    entries,
+    species_energies,
+    water_she,
+    warnings_list,
+    sources,
+    method=None,
+    extra_species=(),
+):
     """Solve the envelope of ``entries`` and assemble a DomainMap.
 
     Parameters
@@ -668,7 +701,9 @@ def build_map(conditions, entries, species_energies, water_she, warnings_list, s
         # interior pole found in window-normalised units, so pH and volts weigh alike
         sx = window[1] - window[0]
         sy = window[3] - window[2]
-        Pn = Polygon(np.column_stack([(poly[:, 0] - window[0]) / sx, (poly[:, 1] - window[2]) / sy]))
+        Pn = Polygon(
+            np.column_stack([(poly[:, 0] - window[0]) / sx, (poly[:, 1] - window[2]) / sy])
+        )
         lpn = polylabel(Pn, tolerance=2e-3)
         lp = Point(window[0] + lpn.x * sx, window[2] + lpn.y * sy)
         e = entries[i]
@@ -718,7 +753,7 @@ def build_map(conditions, entries, species_energies, water_she, warnings_list, s
 
 
 def _reference_frame(reference, temperature_c, warn_list):
-    from . import electrodes
+    from pourbaix.physics import electrodes
 
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
@@ -769,7 +804,7 @@ def _select_species(table, element, others, metastable, exclude, only):
 
 
 def _parse_elements(elements):
-    from .formula import ELEMENTS
+    from pourbaix.tables.formula import ELEMENTS
 
     if isinstance(elements, str):
         elements = elements.replace(",", " ").replace("-", " ").split()
@@ -904,7 +939,7 @@ def compute_map(
     >>> m.probe(7.0, -0.6).state
     'immunity'
     """
-    from .data import load_species
+    from pourbaix.tables.species import load_species
 
     elements, activity, molality, ph_range, potential_range_v = _check_basics(
         elements, activity, molality, ph_range, potential_range_v
@@ -913,16 +948,24 @@ def compute_map(
         table = load_species(dataset, tuple(data_files))
     warn = list(getattr(table, "overrides", ()))
     if ligands or ratio is not None or len(elements) > 1:
-        from . import systems
+        from pourbaix.maps import systems
 
         return systems.compute_system_map(**locals())
 
     element = elements[0]
-    from .energies import reference_species
+    from pourbaix.physics.energies import reference_species
 
     reference_species(table, element)  # raises if the element has no data
     ctx, gamma_of, ionic, model = _conditions_context(
-        table, elements, temperature_c, pressure_bar, water_activity, ionic_strength, background, activity_model, warn
+        table,
+        elements,
+        temperature_c,
+        pressure_bar,
+        water_activity,
+        ionic_strength,
+        background,
+        activity_model,
+        warn,
     )
     ref_name, off0, off1 = _reference_frame(reference, ctx.temperature_c, warn)
     if ionic > 0 and molality is None:
@@ -966,7 +1009,9 @@ def compute_map(
         )
     _route_warnings(energies_list, ctx.temperature_c, warn)
     water_she = energies.water_lines(ctx)
-    water_sp = energies.SpeciesEnergy(table.get("H2O", "l"), ctx.g_water_kj, "IAPWS-95", 300.0, ctx.water_activity, 1.0, (0, 0, 0))
+    water_sp = energies.SpeciesEnergy(
+        table.get("H2O", "l"), ctx.g_water_kj, "IAPWS-95", 300.0, ctx.water_activity, 1.0, (0, 0, 0)
+    )
     sources = {}
     for se in [*energies_list, water_sp]:
         sources[se.species.source] = table.sources.get(se.species.source, se.species.source)
@@ -1016,8 +1061,18 @@ def dissolved_activity(sp, activity, molality, gamma_of):
     return float(activity), 1.0
 
 
-def _conditions_context(table, elements, temperature_c, pressure_bar, water_activity, ionic_strength, background, activity_model, warn):
-    from .energies import make_context
+def _conditions_context(
+    table,
+    elements,
+    temperature_c,
+    pressure_bar,
+    water_activity,
+    ionic_strength,
+    background,
+    activity_model,
+    warn,
+):
+    from pourbaix.physics.energies import make_context
 
     try:
         t = float(temperature_c)
@@ -1028,21 +1083,29 @@ def _conditions_context(table, elements, temperature_c, pressure_bar, water_acti
         ctx = make_context(table, t, pressure_bar, water_activity, elements)
         ionic = 0.0
         if background is not None or ionic_strength is not None:
-            from . import solution
+            from pourbaix.physics import solution
         if background is not None and ionic_strength is not None:
             raise OptionError("give either an ionic strength or a background electrolyte, not both")
         if background is not None:
-            bg = solution.parse_background(background) if isinstance(background, str) else dict(background)
+            bg = (
+                solution.parse_background(background)
+                if isinstance(background, str)
+                else dict(background)
+            )
             ions = solution.background_ions(bg)
             ionic = float(solution.ionic_strength([(m, z) for _, m, z in ions]))
         elif ionic_strength is not None:
             ionic = float(ionic_strength)
             if not (math.isfinite(ionic) and ionic >= 0):
-                raise ConditionsError(f"ionic strength must be a number >= 0 mol/kg, got {ionic_strength}")
+                raise ConditionsError(
+                    f"ionic strength must be a number >= 0 mol/kg, got {ionic_strength}"
+                )
         model = None
         if ionic > 0:
             model = activity_model
-            solution.log_gamma(1, ionic, t, model=model)  # validates model and range (raises or warns)
+            solution.log_gamma(
+                1, ionic, t, model=model
+            )  # validates model and range (raises or warns)
 
             def gamma_of(z, _i=ionic, _m=model):
                 # the model's range warning was recorded once above; not repeated per species
@@ -1095,10 +1158,15 @@ def compute_sweep(elements, *, temperatures_c=None, activities=None, **kwargs):
     """
     if (temperatures_c is None) == (activities is None):
         raise OptionError("give exactly one of temperatures_c or activities for a sweep")
-    from .data import load_species
+    from pourbaix.tables.species import load_species
 
     if "table" not in kwargs:
-        kwargs["table"] = load_species(kwargs.get("dataset", "default"), tuple(kwargs.get("data_files", ())))
+        kwargs["table"] = load_species(
+            kwargs.get("dataset", "default"), tuple(kwargs.get("data_files", ()))
+        )
     if temperatures_c is not None:
         return [compute_map(elements, temperature_c=t, **kwargs) for t in temperatures_c]
-    return [compute_map(elements, activity=a, **{k: v for k, v in kwargs.items() if k != "activity"}) for a in activities]
+    return [
+        compute_map(elements, activity=a, **{k: v for k, v in kwargs.items() if k != "activity"})
+        for a in activities
+    ]

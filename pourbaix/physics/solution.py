@@ -2,7 +2,7 @@
 
 Molalities are in mol/kg of water; log means log10. Three models are offered
 (:data:`ACTIVITY_MODELS`): Davies, extended Debye–Hückel and B-dot. Each states
-the ionic strength above which it warns (:class:`~pourbaix.thermo.RangeWarning`)
+the ionic strength above which it warns (:class:`~pourbaix.physics.thermo.RangeWarning`)
 and above which it refuses (:class:`~pourbaix.errors.ConditionsError`); see
 :func:`model_validity`. Neutral species get γ = 1 (no salting-out term).
 """
@@ -16,8 +16,8 @@ from typing import NamedTuple
 
 import numpy as np
 
-from .errors import ConditionsError, FormulaError, OptionError
-from .thermo import RangeWarning, check_temperature, water_properties
+from pourbaix.errors import ConditionsError, FormulaError, OptionError
+from pourbaix.physics.thermo import RangeWarning, check_temperature, water_properties
 
 __all__ = [
     "SALTS",
@@ -131,7 +131,7 @@ DEFAULT_ION_SIZE = 4.0  # [Å] for ions not in the table (common practice)
 
 
 def _ion_charge(name):
-    from .formula import parse_formula
+    from pourbaix.tables.formula import parse_formula
 
     try:
         return parse_formula(str(name)).charge
@@ -324,7 +324,7 @@ def ion_size(ion, default=DEFAULT_ION_SIZE):
     """
     if ion in KIELLAND_ION_SIZE:
         return KIELLAND_ION_SIZE[ion]
-    from .formula import parse_formula
+    from pourbaix.tables.formula import parse_formula
 
     try:
         text = parse_formula(str(ion)).text
@@ -372,7 +372,7 @@ def debye_huckel_a(temperature_c=25.0, pressure_bar=None):
     temperature_c : float or array_like
         Temperature [°C].
     pressure_bar : float, optional
-        Pressure; default as in :func:`pourbaix.thermo.water_properties` [bar].
+        Pressure; default as in :func:`pourbaix.physics.thermo.water_properties` [bar].
 
     Returns
     -------
@@ -406,7 +406,7 @@ def debye_huckel_b(temperature_c=25.0, pressure_bar=None):
     temperature_c : float or array_like
         Temperature [°C].
     pressure_bar : float, optional
-        Pressure; default as in :func:`pourbaix.thermo.water_properties` [bar].
+        Pressure; default as in :func:`pourbaix.physics.thermo.water_properties` [bar].
 
     Returns
     -------
@@ -614,7 +614,7 @@ def log_gamma(
         Ion-size parameter å for the extended Debye–Hückel and B-dot models;
         default 4 Å (see :func:`ion_size` for Kielland's values) [Å].
     pressure_bar : float, optional
-        Pressure; default as in :func:`pourbaix.thermo.water_properties` [bar].
+        Pressure; default as in :func:`pourbaix.physics.thermo.water_properties` [bar].
 
     Returns
     -------

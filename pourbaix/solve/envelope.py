@@ -21,7 +21,7 @@ from itertools import combinations
 
 import numpy as np
 
-from .errors import ConditionsError
+from pourbaix.errors import ConditionsError
 
 __all__ = ["Envelope", "Edge", "lower_envelope", "clip_domains", "clip_halfplane"]
 
@@ -96,7 +96,9 @@ def _check_window(window):
     try:
         x0, x1, y0, y1 = (float(v) for v in window)
     except (TypeError, ValueError) as exc:
-        raise ConditionsError(f"window must be four numbers (pH lo, pH hi, E lo, E hi), got {window!r}") from exc
+        raise ConditionsError(
+            f"window must be four numbers (pH lo, pH hi, E lo, E hi), got {window!r}"
+        ) from exc
     if not all(np.isfinite([x0, x1, y0, y1])):
         raise ConditionsError(f"window limits must be finite, got {window!r}")
     if not (x1 > x0):
@@ -113,7 +115,9 @@ def _dedupe(planes):
     order = np.lexsort(planes.T[::-1])
     a_all, b_all = order[:-1], order[1:]
     same = np.all(
-        np.abs(planes[a_all] - planes[b_all]) <= 1e-12 * np.maximum(scale[a_all], scale[b_all])[:, None], axis=1
+        np.abs(planes[a_all] - planes[b_all])
+        <= 1e-12 * np.maximum(scale[a_all], scale[b_all])[:, None],
+        axis=1,
     )
     for a, b in zip(a_all[same].tolist(), b_all[same].tolist(), strict=True):
         keep, drop = min(a, b), max(a, b)
@@ -217,7 +221,11 @@ def lower_envelope(planes, window):
     norm = np.column_stack([a0, au, av])
 
     coincident = _dedupe(norm) if n > 1 else {}
-    active = np.arange(n) if not coincident else np.array([i for i in range(n) if i not in coincident], dtype=int)
+    active = (
+        np.arange(n)
+        if not coincident
+        else np.array([i for i in range(n) if i not in coincident], dtype=int)
+    )
 
     polygons = [None] * n
     if len(active) == 1:
@@ -451,8 +459,15 @@ def _edges(uv, member, active, stable_cols, planes, frame):
         slope = np.where(vertical, np.inf, -d[:, 1] / d[:, 2])
         xv = np.where(vertical, -d[:, 0] / d[:, 1], np.nan)
     rows = zip(
-        gi.tolist(), gj.tolist(), p.tolist(), q.tolist(), e0.tolist(), slope.tolist(), xv.tolist(),
-        long_enough.tolist(), strict=True,
+        gi.tolist(),
+        gj.tolist(),
+        p.tolist(),
+        q.tolist(),
+        e0.tolist(),
+        slope.tolist(),
+        xv.tolist(),
+        long_enough.tolist(),
+        strict=True,
     )
     for i, j, pp, qq, e, s, x, ok in rows:
         if ok:

@@ -12,8 +12,8 @@ from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
 from pathlib import Path
 
-from .errors import DataFileError, FormulaError, OptionError, UnknownSpeciesError
-from .formula import ELEMENTS, PHASES, Formula, _readings, parse_formula
+from pourbaix.errors import DataFileError, FormulaError, OptionError, UnknownSpeciesError
+from pourbaix.tables.formula import ELEMENTS, PHASES, Formula, _readings, parse_formula
 
 __all__ = [
     "COLUMNS",
@@ -374,7 +374,7 @@ def data_dir() -> Path:
             return d
     except (ModuleNotFoundError, TypeError):
         pass
-    return Path(__file__).resolve().parents[1] / "species_data"
+    return Path(__file__).resolve().parents[2] / "species_data"
 
 
 def _read_lines(path: Path, display: str, problems: list) -> list[tuple[int, list[str]]]:

@@ -33,8 +33,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from . import energies, solve, thermo
-from .domain_map import (
+from pourbaix.errors import ConditionsError, OptionError, UnknownSpeciesError
+from pourbaix.maps.domain_map import (
     Boundary,
     Conditions,
     Domain,
@@ -53,7 +53,8 @@ from .domain_map import (
     species_label,
     to_frame,
 )
-from .errors import ConditionsError, OptionError, UnknownSpeciesError
+from pourbaix.physics import energies, thermo
+from pourbaix.solve import envelope as solve
 
 __all__ = [
     "LigandFamily",
@@ -854,7 +855,7 @@ def compute_ligand_map(
     >>> m.probe(10.0, -0.6).species
     'HS^-'
     """
-    from .data import load_species
+    from pourbaix.tables.species import load_species
 
     ((fam, a),) = _parse_ligands({ligand: activity})
     ph_range = _check_range("pH range", ph_range)
@@ -925,7 +926,7 @@ def compute_system_map(
 ):
     """Map of a metal with ligands, or of several metals at a fixed ratio (or both).
 
-    Called by :func:`pourbaix.domain_map.compute_map` when ligands, a ratio or
+    Called by :func:`pourbaix.maps.domain_map.compute_map` when ligands, a ratio or
     several elements are given; takes the same arguments.
 
     Parameters
@@ -1002,7 +1003,7 @@ def compute_system_map(
     >>> m.probe(7.0, -1.5).species
     'Fe + Cr'
     """
-    from .data import load_species
+    from pourbaix.tables.species import load_species
 
     elements, activity, molality, ph_range, potential_range_v = _check_basics(
         elements, activity, molality, ph_range, potential_range_v

@@ -6,7 +6,7 @@ import os
 import tempfile
 from pathlib import Path
 
-from .errors import ExportError
+from pourbaix.errors import ExportError
 
 __all__ = ["atomic_write_text", "atomic_write_with", "check_writable"]
 
@@ -48,7 +48,9 @@ def atomic_write_with(path, writer):
     """
     p = Path(path)
     check_writable(p)
-    fd, tmp = tempfile.mkstemp(prefix=f".{p.stem}.", suffix=p.suffix, dir=p.parent if str(p.parent) else ".")
+    fd, tmp = tempfile.mkstemp(
+        prefix=f".{p.stem}.", suffix=p.suffix, dir=p.parent if str(p.parent) else "."
+    )
     os.close(fd)
     try:
         writer(tmp)

@@ -23,7 +23,7 @@ import re
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from .errors import OptionError
+from pourbaix.errors import OptionError
 
 __all__ = [
     "REPORT_FORMATS",
@@ -43,7 +43,7 @@ __all__ = [
 REPORT_FORMATS = {".html": "html", ".htm": "html", ".md": "markdown"}
 
 #: Cautions every report carries after the map's own caution
-#: (``pourbaix.domain_map.CAUTION``); DESIGN §7 and the README's "Safety and limits".
+#: (``pourbaix.maps.domain_map.CAUTION``); DESIGN §7 and the README's "Safety and limits".
 REPORT_CAUTIONS = (
     "Maps are thermodynamic: they say nothing about rates, film quality, pitting, crevices, "
     "stress corrosion, microbiology (microbiologically influenced corrosion), galvanic coupling or "
@@ -303,7 +303,7 @@ def table_markdown(rows, columns=None):
 # ---------------------------------------------------------------------- the map's content
 def _names(dmap):
     """Species id -> unicode label (Fe(OH)₂⁺, CO₂(aq), Fe₂O₃ (maghemite))."""
-    from .domain_map import species_id
+    from pourbaix.maps.domain_map import species_id
 
     out = {}
     for se in dmap.species:
@@ -343,7 +343,7 @@ def report_cautions(dmap=None):
     -------
     tuple of str
     """
-    from .domain_map import CAUTION
+    from pourbaix.maps.domain_map import CAUTION
 
     return (CAUTION, *REPORT_CAUTIONS)
 
@@ -412,7 +412,7 @@ def _conditions_rows(dmap):
 
 
 def _nernst(dmap):
-    from .thermo import nernst_factor
+    from pourbaix.physics.thermo import nernst_factor
 
     return float(nernst_factor(dmap.conditions.temperature_c))
 
@@ -442,7 +442,7 @@ def _domain_rows(dmap, names):
 
 
 def _boundary_rows(dmap, names):
-    from .lines import boundary_equations
+    from pourbaix.maps.lines import boundary_equations
 
     rows = []
     for i, r in enumerate(boundary_equations(dmap), 1):
@@ -484,7 +484,7 @@ def _water_rows(dmap):
 
 
 def _species_rows(dmap, names):
-    from .domain_map import species_id
+    from pourbaix.maps.domain_map import species_id
 
     stable = {s for d in dmap.domains for s in d.species}
     rows, notes = [], []
@@ -573,7 +573,7 @@ def _other_warnings(maps, dmap):
 
 
 def _window_sections(w, dmap):
-    from .analyses.windows import draw_window
+    from pourbaix.analyses.windows import draw_window
 
     ref = w.reference
     d = w.to_dict()
@@ -661,7 +661,7 @@ def _signed(v, fmt):
 
 
 def _field_sections(data, dmap):
-    from .analyses.field import draw_field
+    from pourbaix.analyses.field import draw_field
 
     ref = data.reference or (dmap.conditions.reference if dmap is not None else "")
     names = _names(dmap) if dmap is not None else {}
@@ -777,7 +777,7 @@ def _reading_sections(r, dmap):
 
 
 def _solubility_sections(res, dmap):
-    from .analyses.solubility import draw_solubility_curve
+    from pourbaix.analyses.solubility import draw_solubility_curve
 
     names = _names(dmap) if dmap is not None else {}
     ref = res.reference
@@ -819,7 +819,7 @@ def _solubility_sections(res, dmap):
 
 
 def _comparison_sections(cmp, dmap):
-    from .analyses.compare import draw_comparison
+    from pourbaix.analyses.compare import draw_comparison
 
     names = {**_names(cmp.map_b), **_names(cmp.map_a)}
 
@@ -853,7 +853,7 @@ def _comparison_sections(cmp, dmap):
     notes = list(cmp.notes)
     notes += _other_warnings((("map A", cmp.map_a), ("map B", cmp.map_b)), dmap)
     ca, cb = cmp.map_a.conditions, cmp.map_b.conditions
-    # same test as pourbaix.draw.draw_overlay: one potential axis needs one electrode position
+    # same test as pourbaix.plot.draw.draw_overlay: one potential axis needs one electrode position
     if (
         abs(ca.reference_offset_v - cb.reference_offset_v) > 1e-9
         or ca.reference_slope_v_per_ph != cb.reference_slope_v_per_ph
@@ -945,8 +945,8 @@ class _Doc:
 
 
 def _build(dmap, *, title, extra_sections, analyses, figure, reading, second_reference):
-    from . import __version__
-    from .domain_map import DomainMap
+    from pourbaix import __version__
+    from pourbaix.maps.domain_map import DomainMap
 
     if not isinstance(dmap, DomainMap):
         raise OptionError(f"report: give a computed map (DomainMap), got {type(dmap).__name__}")
@@ -975,7 +975,7 @@ def _build(dmap, *, title, extra_sections, analyses, figure, reading, second_ref
     )
     # main figure
     if figure is None or figure is True:
-        from .draw import draw_map
+        from pourbaix.plot.draw import draw_map
 
         ax = draw_map(dmap, reading=reading, second_reference=second_reference)
         doc.figures.append(
@@ -1106,7 +1106,7 @@ def _build(dmap, *, title, extra_sections, analyses, figure, reading, second_ref
         add(f"analysis-{k}", _as_section(item))
     notes = list(dmap.warnings)
     if isinstance(dmap, DomainMap):
-        from .analyses.solubility import missing_solid_note
+        from pourbaix.analyses.solubility import missing_solid_note
 
         notes += [n for n in (missing_solid_note(dmap),) if n]
     add(
@@ -1421,7 +1421,7 @@ def write_report(
         ``MapComparison``), each shown as a section with its table, notes and
         figure.
     figure : matplotlib Figure or Axes, or bool, optional
-        The main figure; None draws the map (``pourbaix.draw.draw_map``),
+        The main figure; None draws the map (``pourbaix.plot.draw.draw_map``),
         False leaves it out.
     reading : bool
         Shade the corrosion reading on the drawn map.
@@ -1450,7 +1450,7 @@ def write_report(
     ...     "<svg" in path.read_text(encoding="utf-8")
     True
     """
-    from .export import atomic_write_text, atomic_write_with, check_writable
+    from pourbaix.outputs import atomic_write_text, atomic_write_with, check_writable
 
     p = Path(path)
     kind = _kind(p)

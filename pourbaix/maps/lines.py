@@ -6,13 +6,13 @@ import math
 
 import numpy as np
 
-from .errors import DataError
+from pourbaix.errors import DataError
 
 __all__ = ["boundary_equations"]
 
 
 def _species_by_name(dmap):
-    from .domain_map import species_id
+    from pourbaix.maps.domain_map import species_id
 
     return {species_id(se.species): se for se in dmap.species}
 
@@ -43,7 +43,7 @@ def boundary_equations(dmap):
     Assemblage boundaries (ligand and several-metal maps) are listed with
     their line only.
     """
-    from .reactions import balance_pair
+    from pourbaix.physics.reactions import balance_pair
 
     by_name = _species_by_name(dmap)
     k = float(_nernst(dmap))
@@ -80,7 +80,7 @@ def boundary_equations(dmap):
 
 
 def _nernst(dmap):
-    from .thermo import nernst_factor
+    from pourbaix.physics.thermo import nernst_factor
 
     return nernst_factor(dmap.conditions.temperature_c)
 
@@ -135,7 +135,7 @@ def _describe(rx, by_name, b, c, k):
 
 
 def _id(sp):
-    from .domain_map import species_id
+    from pourbaix.maps.domain_map import species_id
 
     return species_id(sp)
 

@@ -8,7 +8,7 @@ import math
 import sys
 from pathlib import Path
 
-from .errors import OptionError, PourbaixError
+from pourbaix.errors import OptionError, PourbaixError
 
 __all__ = ["main", "build_parser"]
 
@@ -20,7 +20,7 @@ SAFETY = (
 )
 
 _OUT_KINDS = (".png", ".svg", ".pdf", ".json", ".csv")
-# names of pourbaix.draw.PALETTES, kept here so that building the parser does not import the drawing
+# names of pourbaix.plot.draw.PALETTES, kept here so that building the parser does not import the drawing
 _PALETTES = ("default", "grey")
 
 
@@ -60,7 +60,9 @@ def _ligand(text):
     try:
         v = float(value)
     except ValueError:
-        raise argparse.ArgumentTypeError(f"ligand {name!r}: activity {value!r} is not a number") from None
+        raise argparse.ArgumentTypeError(
+            f"ligand {name!r}: activity {value!r} is not a number"
+        ) from None
     if not (math.isfinite(v) and v > 0):
         raise argparse.ArgumentTypeError(f"ligand {name!r}: activity must be > 0, got {value!r}")
     return name.strip(), v
@@ -80,29 +82,95 @@ def _ratio(text):
 def _add_conditions(p, window=True):
     g = p.add_argument_group("conditions")
     g.add_argument("element", nargs="+", help="element symbol(s); several metals need --ratio")
-    g.add_argument("--activity", type=_positive_float, help="activity of dissolved species (default 1e-6)")
-    g.add_argument("--molality", type=_positive_float, help="molality of dissolved species [mol/kg] (instead of --activity)")
-    if window:
-        g.add_argument("--ph", nargs=2, type=_float, metavar=("LO", "HI"), default=(-2.0, 16.0), help="pH window (default -2 16)")
-        g.add_argument(
-            "--potential", nargs=2, type=_float, metavar=("LO", "HI"), default=(-2.0, 2.0), help="potential window [V vs --reference] (default -2 2)"
-        )
-    g.add_argument("--reference", default="SHE", help="reference electrode for all potentials (see `pourbaix references`)")
-    g.add_argument("--temperature", type=_float, default=25.0, metavar="C", help="temperature [°C], 0-300 (default 25)")
-    g.add_argument("--pressure", type=_positive_float, metavar="BAR", help="pressure [bar] (default 1, or saturation above 100 °C)")
-    g.add_argument("--ionic-strength", type=_float, metavar="I", help="ionic strength [mol/kg]")
-    g.add_argument("--background", metavar="SALT=M,...", help="background electrolyte, e.g. NaCl=0.5,CaCl2=0.01 [mol/kg]")
-    g.add_argument("--activity-model", default="davies", help="davies, extended-debye-huckel or b-dot (default davies)")
-    g.add_argument("--water-activity", type=_positive_float, default=1.0, help="activity of water (below 1 for brines)")
-    g.add_argument("--ligand", action="append", type=_ligand, default=[], metavar="NAME=A", help="ligand total activity, e.g. S=1e-3, Cl=0.1, CN=1e-3 (repeatable)")
-    g.add_argument("--ratio", type=_ratio, help="amounts of the metals, e.g. 70:19:11 for Fe Cr Ni")
-    g.add_argument("--exclude", nargs="+", default=[], metavar="SPECIES", help="species to leave out")
-    g.add_argument("--only", nargs="+", metavar="SPECIES", help="keep only these species (and the element)")
     g.add_argument(
-        "--metastable", choices=("exclude", "include", "only"), default="exclude", help="metastable solids: leave out (default), include, or use instead of stable ones"
+        "--activity", type=_positive_float, help="activity of dissolved species (default 1e-6)"
+    )
+    g.add_argument(
+        "--molality",
+        type=_positive_float,
+        help="molality of dissolved species [mol/kg] (instead of --activity)",
+    )
+    if window:
+        g.add_argument(
+            "--ph",
+            nargs=2,
+            type=_float,
+            metavar=("LO", "HI"),
+            default=(-2.0, 16.0),
+            help="pH window (default -2 16)",
+        )
+        g.add_argument(
+            "--potential",
+            nargs=2,
+            type=_float,
+            metavar=("LO", "HI"),
+            default=(-2.0, 2.0),
+            help="potential window [V vs --reference] (default -2 2)",
+        )
+    g.add_argument(
+        "--reference",
+        default="SHE",
+        help="reference electrode for all potentials (see `pourbaix references`)",
+    )
+    g.add_argument(
+        "--temperature",
+        type=_float,
+        default=25.0,
+        metavar="C",
+        help="temperature [°C], 0-300 (default 25)",
+    )
+    g.add_argument(
+        "--pressure",
+        type=_positive_float,
+        metavar="BAR",
+        help="pressure [bar] (default 1, or saturation above 100 °C)",
+    )
+    g.add_argument("--ionic-strength", type=_float, metavar="I", help="ionic strength [mol/kg]")
+    g.add_argument(
+        "--background",
+        metavar="SALT=M,...",
+        help="background electrolyte, e.g. NaCl=0.5,CaCl2=0.01 [mol/kg]",
+    )
+    g.add_argument(
+        "--activity-model",
+        default="davies",
+        help="davies, extended-debye-huckel or b-dot (default davies)",
+    )
+    g.add_argument(
+        "--water-activity",
+        type=_positive_float,
+        default=1.0,
+        help="activity of water (below 1 for brines)",
+    )
+    g.add_argument(
+        "--ligand",
+        action="append",
+        type=_ligand,
+        default=[],
+        metavar="NAME=A",
+        help="ligand total activity, e.g. S=1e-3, Cl=0.1, CN=1e-3 (repeatable)",
+    )
+    g.add_argument("--ratio", type=_ratio, help="amounts of the metals, e.g. 70:19:11 for Fe Cr Ni")
+    g.add_argument(
+        "--exclude", nargs="+", default=[], metavar="SPECIES", help="species to leave out"
+    )
+    g.add_argument(
+        "--only", nargs="+", metavar="SPECIES", help="keep only these species (and the element)"
+    )
+    g.add_argument(
+        "--metastable",
+        choices=("exclude", "include", "only"),
+        default="exclude",
+        help="metastable solids: leave out (default), include, or use instead of stable ones",
     )
     g.add_argument("--dataset", default="default", help="data set (see `pourbaix datasets`)")
-    g.add_argument("--data", action="append", default=[], metavar="FILE", help="user species table (same columns); repeatable")
+    g.add_argument(
+        "--data",
+        action="append",
+        default=[],
+        metavar="FILE",
+        help="user species table (same columns); repeatable",
+    )
 
 
 def _map_kwargs(a):
@@ -129,7 +197,7 @@ def _map_kwargs(a):
 
 
 def _compute(a):
-    from .domain_map import compute_map
+    from pourbaix.maps.domain_map import compute_map
 
     return compute_map(a.element, **_map_kwargs(a))
 
@@ -141,7 +209,7 @@ def _print_warnings(dmap):
 
 def _note_missing_solid(dmap):
     """Say so when a one-element map shows no solid compound, and from what activity one would show."""
-    from .analyses.solubility import missing_solid_note
+    from pourbaix.analyses.solubility import missing_solid_note
 
     note = missing_solid_note(dmap)
     if note:
@@ -162,8 +230,10 @@ def cmd_map(a):
         raise OptionError("give at least one --out FILE (or --report FILE)")
     for o in outs:
         if o.suffix.lower() not in _OUT_KINDS:
-            raise OptionError(f"--out {o}: unknown file type {o.suffix or '(none)'}; use one of {', '.join(_OUT_KINDS)}")
-    from .export import check_writable
+            raise OptionError(
+                f"--out {o}: unknown file type {o.suffix or '(none)'}; use one of {', '.join(_OUT_KINDS)}"
+            )
+    from pourbaix.outputs import check_writable
 
     for o in outs + ([Path(a.report)] if a.report else []):
         check_writable(o)
@@ -177,11 +247,13 @@ def cmd_map(a):
         elif o.suffix.lower() == ".csv":
             dmap.boundaries_csv(o)
     if figure_outs:
-        from . import draw
+        from pourbaix.plot import draw
 
-        ax = draw.draw_map(dmap, reading=a.reading, second_reference=a.second_axis, palette=a.palette)
+        ax = draw.draw_map(
+            dmap, reading=a.reading, second_reference=a.second_axis, palette=a.palette
+        )
         if a.solubility_lines is not None:
-            from .analyses.solubility import DEFAULT_LEVELS, add_solubility_lines
+            from pourbaix.analyses.solubility import DEFAULT_LEVELS, add_solubility_lines
 
             add_solubility_lines(ax, dmap, a.solubility_lines or DEFAULT_LEVELS)
         for o in figure_outs:
@@ -189,7 +261,7 @@ def cmd_map(a):
     for o in outs:
         print(f"wrote {o}")
     if a.report:
-        from .report import write_report_from_args
+        from pourbaix.report.document import write_report_from_args
 
         write_report_from_args(a, dmap)
     print(f"{len(dmap.domains)} domains: " + ", ".join(" + ".join(d.species) for d in dmap.domains))
@@ -210,22 +282,28 @@ def cmd_probe(a):
         print(json.dumps(row, indent=2))
         return 0
     ref = dmap.conditions.reference
-    print(f"{'-'.join(dmap.conditions.elements)} at pH {a.ph:g}, E = {a.potential:+.3f} V vs {ref}, {dmap.conditions.temperature_c:g} °C")
+    print(
+        f"{'-'.join(dmap.conditions.elements)} at pH {a.ph:g}, E = {a.potential:+.3f} V vs {ref}, {dmap.conditions.temperature_c:g} °C"
+    )
     print(f"  stable:  {r.species}")
     print(f"  state:   {r.state}")
     print("  margins to the nearest boundaries:")
     print(f"    up    {_fmt_margin(r.margin_up_v, 'V'):>9}  -> {r.neighbour_up or '-'}")
     print(f"    down  {_fmt_margin(r.margin_down_v, 'V'):>9}  -> {r.neighbour_down or '-'}")
     print(f"    acid  {_fmt_margin(r.margin_acid_ph, 'pH'):>9}  -> {r.neighbour_acid or '-'}")
-    print(f"    base  {_fmt_margin(r.margin_alkaline_ph, 'pH'):>9}  -> {r.neighbour_alkaline or '-'}")
+    print(
+        f"    base  {_fmt_margin(r.margin_alkaline_ph, 'pH'):>9}  -> {r.neighbour_alkaline or '-'}"
+    )
     if r.state == "passivation":
-        print("  (passivation: a solid is thermodynamically stable; whether it protects is a kinetic question)")
+        print(
+            "  (passivation: a solid is thermodynamically stable; whether it protects is a kinetic question)"
+        )
     return 0
 
 
 def cmd_lines(a):
     """Print every boundary's reaction and equation."""
-    from .lines import boundary_equations
+    from pourbaix.maps.lines import boundary_equations
 
     dmap = _compute(a)
     _print_warnings(dmap)
@@ -235,7 +313,9 @@ def cmd_lines(a):
         return 0
     ref = dmap.conditions.reference
     c = dmap.conditions
-    print(f"Boundaries of {'-'.join(c.elements)} at {c.temperature_c:g} °C, potentials vs {ref}; k = {rows[0]['nernst_v'] if rows else 0:.5f} V")
+    print(
+        f"Boundaries of {'-'.join(c.elements)} at {c.temperature_c:g} °C, potentials vs {ref}; k = {rows[0]['nernst_v'] if rows else 0:.5f} V"
+    )
     for i, r in enumerate(rows, 1):
         print(f"\n{i:2d}. {r['between'][0]}  |  {r['between'][1]}")
         if r.get("reaction"):
@@ -246,24 +326,28 @@ def cmd_lines(a):
             print(f"    log K = {r['log_k']:.3f};  {r['nernst']}")
         print(f"    line: {r['line']}")
     w = dmap.water
-    print(f"\nwater: O2/H2O  E = {w['oxygen'][0]:+.4f} {w['oxygen'][1]:+.5f} pH;  H2O/H2  E = {w['hydrogen'][0]:+.4f} {w['hydrogen'][1]:+.5f} pH  (V vs {ref})")
+    print(
+        f"\nwater: O2/H2O  E = {w['oxygen'][0]:+.4f} {w['oxygen'][1]:+.5f} pH;  H2O/H2  E = {w['hydrogen'][0]:+.4f} {w['hydrogen'][1]:+.5f} pH  (V vs {ref})"
+    )
     return 0
 
 
 def cmd_species(a):
     """List the species of a system."""
-    from .data import load_species
+    from pourbaix.tables.species import load_species
 
     table = load_species(a.dataset, tuple(a.data))
     for msg in table.overrides:
         print(f"pourbaix: note: {msg}", file=sys.stderr)
     els = set(a.element)
-    from .domain_map import _parse_elements
+    from pourbaix.maps.domain_map import _parse_elements
 
     _parse_elements(a.element)
     rows = [s for s in table.for_elements(els) if els & set(s.composition)]
     if not rows:
-        raise OptionError(f"no species of {' '.join(a.element)} in the tables (data set {table.dataset})")
+        raise OptionError(
+            f"no species of {' '.join(a.element)} in the tables (data set {table.dataset})"
+        )
     if a.json:
         out = []
         for s in rows:
@@ -285,14 +369,18 @@ def cmd_species(a):
             out.append(d)
         print(json.dumps(out, indent=2, ensure_ascii=False))
         return 0
-    print(f"{len(rows)} species with {' '.join(a.element)} (data set {table.dataset}; ΔfG° at 25 °C, kJ/mol)")
+    print(
+        f"{len(rows)} species with {' '.join(a.element)} (data set {table.dataset}; ΔfG° at 25 °C, kJ/mol)"
+    )
     w = max(len(s.name) for s in rows)
     print(f"{'species':<{w}}  phase  {'ΔfG°':>10}  {'ΔfH°':>10}  {'S°':>8}  source      note")
     for s in rows:
         dh = "" if s.dhf_kj_mol is None else f"{s.dhf_kj_mol:10.2f}"
         so = "" if s.s_j_molk is None else f"{s.s_j_molk:8.2f}"
         note = ("[metastable] " if s.metastable else "") + (s.note or "")
-        print(f"{s.name:<{w}}  {s.phase:<5}  {s.dgf_kj_mol:10.2f}  {dh:>10}  {so:>8}  {s.source:<10}  {note}")
+        print(
+            f"{s.name:<{w}}  {s.phase:<5}  {s.dgf_kj_mol:10.2f}  {dh:>10}  {so:>8}  {s.source:<10}  {note}"
+        )
     print("\nsources:")
     for key in sorted({s.source for s in rows}):
         print(f"  {key}: {table.sources.get(key, '(user-provided)')}")
@@ -301,7 +389,7 @@ def cmd_species(a):
 
 def cmd_references(a):
     """List the reference electrodes."""
-    from .electrodes import list_references
+    from pourbaix.physics.electrodes import list_references
 
     refs = list_references()
     if a.json:
@@ -318,7 +406,7 @@ def cmd_references(a):
 
 def cmd_datasets(a):
     """List the data sets."""
-    from .data import available_datasets
+    from pourbaix.tables.species import available_datasets
 
     for name, desc in available_datasets().items():
         print(f"{name}: {desc}")
@@ -333,7 +421,7 @@ def build_parser():
         description="Exact potential-pH (Pourbaix) maps from traceable thermodynamic data.",
         epilog=SAFETY,
     )
-    from . import __version__
+    from pourbaix import __version__
 
     p.add_argument("--version", action="version", version=f"pourbaix {__version__}")
     sub = p.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
@@ -343,13 +431,27 @@ def build_parser():
         "map",
         help="draw or export a map",
         description="Compute the exact map of an element system and write it as PNG, SVG, PDF, JSON (map format v1) or CSV (boundaries).",
-        epilog="example: pourbaix map Fe --activity 1e-6 --reference SCE --out fe.png --out fe.json\n\n" + SAFETY,
+        epilog="example: pourbaix map Fe --activity 1e-6 --reference SCE --out fe.png --out fe.json\n\n"
+        + SAFETY,
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )
     _add_conditions(m)
-    m.add_argument("--out", action="append", metavar="FILE", help="output file; extension picks the kind (.png .svg .pdf .json .csv); repeatable")
-    m.add_argument("--reading", action="store_true", help="shade the corrosion reading (immunity / passivation / corrosion)")
-    m.add_argument("--second-axis", metavar="REFERENCE", help="add a right-hand potential axis vs another reference")
+    m.add_argument(
+        "--out",
+        action="append",
+        metavar="FILE",
+        help="output file; extension picks the kind (.png .svg .pdf .json .csv); repeatable",
+    )
+    m.add_argument(
+        "--reading",
+        action="store_true",
+        help="shade the corrosion reading (immunity / passivation / corrosion)",
+    )
+    m.add_argument(
+        "--second-axis",
+        metavar="REFERENCE",
+        help="add a right-hand potential axis vs another reference",
+    )
     m.add_argument(
         "--palette",
         choices=_PALETTES,
@@ -363,7 +465,7 @@ def build_parser():
         metavar="LEVEL",
         help="draw iso-solubility lines of the total dissolved element [mol/kg] (default levels 1e-2 1e-4 1e-6 1e-8)",
     )
-    from .report import add_report_option
+    from pourbaix.report.document import add_report_option
 
     add_report_option(m)
     m.set_defaults(func=cmd_map, window=True)
@@ -377,7 +479,13 @@ def build_parser():
     )
     _add_conditions(pr, window=False)
     pr.add_argument("--ph", type=_float, required=True, metavar="X", help="pH of the point")
-    pr.add_argument("--potential", type=_float, required=True, metavar="E", help="potential of the point [V vs --reference]")
+    pr.add_argument(
+        "--potential",
+        type=_float,
+        required=True,
+        metavar="E",
+        help="potential of the point [V vs --reference]",
+    )
     pr.add_argument("--json", action="store_true", help="print JSON")
     pr.set_defaults(func=cmd_probe, window=False)
 
@@ -404,7 +512,11 @@ def build_parser():
     sp.add_argument("--json", action="store_true")
     sp.set_defaults(func=cmd_species)
 
-    rf = sub.add_parser("references", help="list reference electrodes with values and sources", epilog="example: pourbaix references")
+    rf = sub.add_parser(
+        "references",
+        help="list reference electrodes with values and sources",
+        epilog="example: pourbaix references",
+    )
     rf.add_argument("--json", action="store_true")
     rf.set_defaults(func=cmd_references)
 
@@ -416,7 +528,7 @@ def build_parser():
 
 
 def _add_analysis_commands(sub):
-    from .cli_analyses import register
+    from pourbaix.cli.analyses import register
 
     register(sub, _add_conditions, _map_kwargs)
 

@@ -25,8 +25,8 @@ from pathlib import Path
 
 import numpy as np
 
-from .errors import ConditionsError, OptionError
-from .formula import _TO_SUPER
+from pourbaix.errors import ConditionsError, OptionError
+from pourbaix.tables.formula import _TO_SUPER
 
 __all__ = ["draw_map", "draw_overlay", "draw_points", "save_figure", "PALETTES", "FIGURE_SIZE_IN"]
 
@@ -251,7 +251,10 @@ def _title_y(ax):
     to decide whether the title must move up (about 35 ms per saved figure); with
     ticks or a label on top, None keeps that automatic placement.
     """
-    top = ax.xaxis.get_ticks_position() in ("top", "unknown") or ax.xaxis.get_label_position() == "top"
+    top = (
+        ax.xaxis.get_ticks_position() in ("top", "unknown")
+        or ax.xaxis.get_label_position() == "top"
+    )
     return None if top else 1.0
 
 
@@ -1075,7 +1078,7 @@ def _style_axes(ax, dmap_or_window, reference):
 
 def _second_shift(dmap, name):
     """Name of the second reference and the shift E_second - E_map [V] (pH-independent only)."""
-    from . import electrodes
+    from pourbaix.physics import electrodes
 
     c = dmap.conditions
     ref = electrodes.get_reference(name)  # OptionError listing the valid names
@@ -1212,17 +1215,26 @@ def draw_map(
             )
     if title is None:
         ax.set_title(
-            _system_text(c), loc="left", fontsize=12.5, fontweight="bold", color=_INK, pad=8, y=_title_y(ax)
+            _system_text(c),
+            loc="left",
+            fontsize=12.5,
+            fontweight="bold",
+            color=_INK,
+            pad=8,
+            y=_title_y(ax),
         )
         ax.set_title(
             f"{c.temperature_c:g} °C  ·  {_activity_text(c)}",
             loc="right",
             fontsize=9,
             color="#4a4a4a",
-            pad=8, y=_title_y(ax),
+            pad=8,
+            y=_title_y(ax),
         )
     elif title:
-        ax.set_title(title, loc="left", fontsize=12.5, fontweight="bold", color=_INK, pad=8, y=_title_y(ax))
+        ax.set_title(
+            title, loc="left", fontsize=12.5, fontweight="bold", color=_INK, pad=8, y=_title_y(ax)
+        )
     # legend and caption first, so a layout engine makes room for them before labels are placed
     renderer = _renderer(fig, layout=False)
     offset = _bottom_band(ax, renderer)
@@ -1468,9 +1480,22 @@ def draw_overlay(maps, ax=None, *, labels=None, caption=True):
         if not one_water:
             _draw_water(ax, m, colour=colour, lw=0.8, ls=(0, (2, 2.5)), zorder=2.4)
         handles.append(Line2D([], [], color=colour, ls=ls, lw=lw))
-    ax.set_title(_system_text(c), loc="left", fontsize=12.5, fontweight="bold", color=_INK, pad=8, y=_title_y(ax))
     ax.set_title(
-        f"boundaries of {len(maps)} maps overlaid", loc="right", fontsize=9, color="#4a4a4a", pad=8, y=_title_y(ax)
+        _system_text(c),
+        loc="left",
+        fontsize=12.5,
+        fontweight="bold",
+        color=_INK,
+        pad=8,
+        y=_title_y(ax),
+    )
+    ax.set_title(
+        f"boundaries of {len(maps)} maps overlaid",
+        loc="right",
+        fontsize=9,
+        color="#4a4a4a",
+        pad=8,
+        y=_title_y(ax),
     )
     renderer = _renderer(fig, layout=False)
     offset = _bottom_band(ax, renderer)
@@ -1724,7 +1749,7 @@ def save_figure(fig_or_ax, path, dpi=200):
     ...     os.path.getsize(path) > 0
     True
     """
-    from .export import atomic_write_with
+    from pourbaix.outputs import atomic_write_with
 
     ext = Path(path).suffix.lower()
     if ext not in _FORMATS:

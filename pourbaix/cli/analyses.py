@@ -10,7 +10,7 @@ import math
 import sys
 from pathlib import Path
 
-from .errors import DataFileError, OptionError
+from pourbaix.errors import DataFileError, OptionError
 
 __all__ = ["register"]
 
@@ -42,7 +42,7 @@ def _positive(text):
 
 
 def _outputs(paths, allowed, option="--out"):
-    from .export import check_writable
+    from pourbaix.outputs import check_writable
 
     outs = [Path(p) for p in paths or ()]
     for o in outs:
@@ -66,7 +66,7 @@ def _notes(dmap):
 
 
 def _write_text(path, text):
-    from .export import atomic_write_text
+    from pourbaix.outputs import atomic_write_text
 
     atomic_write_text(path, text)
     print(f"wrote {path}")
@@ -82,8 +82,8 @@ def _report_target(a):
     Path or None
         The report's path, or None without ``--report``.
     """
-    from .errors import ExportError
-    from .export import check_writable
+    from pourbaix.errors import ExportError
+    from pourbaix.outputs import check_writable
 
     if not getattr(a, "report", None):
         return None
@@ -104,7 +104,7 @@ def _report(a, dmap, extra, figure=None):
         return None
     import contextlib
 
-    from .report import write_report_from_args
+    from pourbaix.report.document import write_report_from_args
 
     quiet = contextlib.redirect_stdout(sys.stderr) if a.json else contextlib.nullcontext()
     with quiet:
@@ -135,7 +135,7 @@ def _csv_text(rows):
 
 
 def _save(ax, outs):
-    from . import draw
+    from pourbaix.plot import draw
 
     for o in outs:
         draw.save_figure(ax, o)
@@ -154,7 +154,7 @@ def _parser(sub, name, help_text, description, example):
 
 def _add_outputs(p, out_help=None):
     """The options every analysis command ends with: ``--out`` (when it writes files), ``--json``, ``--report``."""
-    from .report import add_report_option
+    from pourbaix.report.document import add_report_option
 
     if out_help is not None:
         p.add_argument("--out", action="append", default=[], metavar="FILE", help=out_help)
@@ -166,14 +166,14 @@ def _add_outputs(p, out_help=None):
 def _cmd_solubility(a, map_kwargs):
     import numpy as np
 
-    from .analyses.solubility import (
+    from pourbaix.analyses.solubility import (
         DEFAULT_LEVELS,
         add_solubility_lines,
         draw_solubility_curve,
         solubility_curve,
         solubility_minimum,
     )
-    from .domain_map import compute_map
+    from pourbaix.maps.domain_map import compute_map
 
     element = _one_element(a, "solubility")
     if (a.potential is None) == (a.along is None):
@@ -271,7 +271,7 @@ def _cmd_solubility(a, map_kwargs):
         )
     levels = a.levels or DEFAULT_LEVELS
     if map_outs or report:
-        from . import draw
+        from pourbaix.plot import draw
 
         # one drawing of the map with its iso-solubility lines serves --map-out and the report
         map_ax = draw.draw_map(dmap)
@@ -303,7 +303,7 @@ def _cmd_solubility(a, map_kwargs):
 
 # ------------------------------------------------------------------ window
 def _cmd_window(a, map_kwargs):
-    from .analyses.windows import _describe, draw_window, leach_window
+    from pourbaix.analyses.windows import _describe, draw_window, leach_window
 
     target = _one_element(a, "window")
     outs = _outputs(a.out, (*_FIGURES, ".json"))
@@ -338,8 +338,8 @@ def _cmd_window(a, map_kwargs):
 
 # ------------------------------------------------------------------ field
 def _cmd_field(a, map_kwargs):
-    from .analyses.field import _table_lines, draw_field, place_readings, read_field_csv
-    from .domain_map import compute_map
+    from pourbaix.analyses.field import _table_lines, draw_field, place_readings, read_field_csv
+    from pourbaix.maps.domain_map import compute_map
 
     outs = _outputs(a.out, (*_FIGURES, ".json", ".csv"))
     _report_target(a)
@@ -415,9 +415,9 @@ def _cmd_field(a, map_kwargs):
 
 # ------------------------------------------------------------------ reading
 def _cmd_reading(a, map_kwargs):
-    from .analyses.reading import corrosion_reading
-    from .domain_map import compute_map
-    from .electrodes import get_reference
+    from pourbaix.analyses.reading import corrosion_reading
+    from pourbaix.maps.domain_map import compute_map
+    from pourbaix.physics.electrodes import get_reference
 
     element = _one_element(a, "reading")
     _report_target(a)
@@ -461,9 +461,9 @@ def _cmd_reading(a, map_kwargs):
 
 # ------------------------------------------------------------------ compare
 def _cmd_compare(a, map_kwargs):
-    from .analyses.compare import _table_lines, compare_maps, draw_comparison
-    from .data import load_species
-    from .domain_map import compute_map
+    from pourbaix.analyses.compare import _table_lines, compare_maps, draw_comparison
+    from pourbaix.maps.domain_map import compute_map
+    from pourbaix.tables.species import load_species
 
     outs = _outputs(a.out, (*_FIGURES, ".json", ".csv"))
     _report_target(a)

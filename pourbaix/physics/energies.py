@@ -25,8 +25,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from . import thermo
-from .errors import ConditionsError
+from pourbaix.errors import ConditionsError
+from pourbaix.physics import thermo
 
 __all__ = ["SpeciesEnergy", "EnergyContext", "make_context", "species_energy", "water_lines"]
 
@@ -181,11 +181,16 @@ def reference_species(table, element):
     DataError
         If the tables hold no such row.
     """
-    from .errors import DataError
+    from pourbaix.errors import DataError
 
     for sp in table.species:
         comp = dict(sp.composition)
-        if list(comp) == [element] and sp.charge == 0 and sp.dgf_kj_mol == 0.0 and not sp.metastable:
+        if (
+            list(comp) == [element]
+            and sp.charge == 0
+            and sp.dgf_kj_mol == 0.0
+            and not sp.metastable
+        ):
             return sp
     raise DataError(f"the tables hold no reference state (ΔfG° = 0) for element {element!r}")
 
@@ -219,14 +224,18 @@ def species_energy(sp, element, ctx, activity=1.0, gamma=1.0, ligand_elements=()
         raise ConditionsError(f"species {sp.name} holds no {element}")
     extra = set(comp) - {element, "H", "O"} - set(ligand_elements)
     if extra:
-        raise ConditionsError(f"species {sp.name} holds {', '.join(sorted(extra))}, outside the system")
+        raise ConditionsError(
+            f"species {sp.name} holds {', '.join(sorted(extra))}, outside the system"
+        )
     h, o, z = comp.get("H", 0), comp.get("O", 0), sp.charge
     dg, route, valid = _gibbs(sp, ctx.temperature_c)
     k = ctx.nernst_v
     n_h = 2 * o - h
     n_e = 2 * o - h + z
     # DESIGN §2.1: dG_r = G_i + n_e G_e - x G_M - o G_w  (formation from M, H2O, H+, e-)
-    dg_r = dg + n_e * ctx.g_electron_kj - x * ctx.element_g_kj.get(element, 0.0) - o * ctx.g_water_kj
+    dg_r = (
+        dg + n_e * ctx.g_electron_kj - x * ctx.element_g_kj.get(element, 0.0) - o * ctx.g_water_kj
+    )
     c0 = (dg_r / _FARADAY_KJ + k * np.log10(activity) - o * k * np.log10(ctx.water_activity)) / x
     plane = (float(c0), float(-n_h * k / x), float(-n_e / x))
     return SpeciesEnergy(sp, float(dg), route, valid, float(activity), float(gamma), plane)

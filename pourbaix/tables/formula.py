@@ -7,7 +7,7 @@ import types
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 
-from .errors import FormulaError
+from pourbaix.errors import FormulaError
 
 __all__ = ["ELEMENTS", "PHASES", "Formula", "parse_formula"]
 

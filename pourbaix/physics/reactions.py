@@ -7,8 +7,8 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 from fractions import Fraction
 
-from .data import Species, SpeciesTable, load_species
-from .errors import DataError
+from pourbaix.errors import DataError
+from pourbaix.tables.species import Species, SpeciesTable, load_species
 
 __all__ = [
     "FARADAY",

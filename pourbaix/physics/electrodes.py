@@ -18,8 +18,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .errors import ConditionsError, OptionError
-from .thermo import RangeWarning, check_temperature, nernst_factor
+from pourbaix.errors import ConditionsError, OptionError
+from pourbaix.physics.thermo import RangeWarning, check_temperature, nernst_factor
 
 __all__ = [
     "ReferenceElectrode",

@@ -1,0 +1,5 @@
+"""The command line: ``pourbaix COMMAND ...`` (see :func:`pourbaix.cli.commands.main`)."""
+
+from pourbaix.cli.commands import main
+
+__all__ = ["main"]

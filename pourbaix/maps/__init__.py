@@ -1,0 +1,1 @@
+"""Map computation: result types, single-element, ligand and fixed-ratio maps."""

@@ -1,0 +1,1 @@
+"""Physical chemistry: Gibbs energies at temperature, water, solutions, electrodes, reactions."""

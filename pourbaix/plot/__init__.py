@@ -1,0 +1,1 @@
+"""Drawing with matplotlib (imported only when a figure is asked for)."""

@@ -1,0 +1,1 @@
+"""Exact geometric solvers: lower envelopes of planes and clipping."""

@@ -1,0 +1,1 @@
+"""Species tables: formulas, rows, files and data sets."""
