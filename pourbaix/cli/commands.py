@@ -527,10 +527,16 @@ def build_parser():
     return p
 
 
-def _add_analysis_commands(sub):
-    from pourbaix.cli.analyses import register
+#: Modules that add command groups: each has ``register(sub, add_conditions, map_kwargs)``.
+#: A new command group is a new module under ``pourbaix/cli/`` and one line here.
+COMMAND_MODULES = ("pourbaix.cli.analyses",)
 
-    register(sub, _add_conditions, _map_kwargs)
+
+def _add_analysis_commands(sub):
+    import importlib
+
+    for name in COMMAND_MODULES:
+        importlib.import_module(name).register(sub, _add_conditions, _map_kwargs)
 
 
 def main(argv=None):
