@@ -17,6 +17,8 @@ from pourbaix.tables.formula import ELEMENTS, PHASES, Formula, _readings, parse_
 
 __all__ = [
     "COLUMNS",
+    "HKF_COLUMNS",
+    "HKFParameters",
     "REQUIRED_COLUMNS",
     "Species",
     "SpeciesTable",
@@ -40,12 +42,32 @@ COLUMNS: dict[str, tuple[str, bool]] = {
     "mk_b_j_molk2": ("J/(mol K^2)", False),
     "mk_c_jk_mol": ("J K/mol", False),
     "mk_tmax_k": ("K", False),
+    "v_cm3_mol": ("cm3/mol", False),
+    "hkf_a1_cal_mol_bar": ("cal/(mol bar)", False),
+    "hkf_a2_cal_mol": ("cal/mol", False),
+    "hkf_a3_cal_k_mol_bar": ("cal K/(mol bar)", False),
+    "hkf_a4_cal_k_mol": ("cal K/mol", False),
+    "hkf_c1_cal_mol_k": ("cal/(mol K)", False),
+    "hkf_c2_cal_k_mol": ("cal K/mol", False),
+    "hkf_omega_cal_mol": ("cal/mol", False),
+    "hkf_source": ("key into sources*.csv", False),
     "metastable": ("yes, no or empty", False),
     "cas": ("CAS number", False),
     "source": ("key into sources*.csv", True),
     "note": ("text", False),
 }
 REQUIRED_COLUMNS: tuple[str, ...] = tuple(c for c, (_, req) in COLUMNS.items() if req)
+# revised-HKF parameters, unscaled, in the units the equations are written in
+# (Tanger & Helgeson 1988; Shock et al. 1992); they come as a set
+HKF_COLUMNS: tuple[str, ...] = (
+    "hkf_a1_cal_mol_bar",
+    "hkf_a2_cal_mol",
+    "hkf_a3_cal_k_mol_bar",
+    "hkf_a4_cal_k_mol",
+    "hkf_c1_cal_mol_k",
+    "hkf_c2_cal_k_mol",
+    "hkf_omega_cal_mol",
+)
 _NUMERIC = (
     "dgf_kj_mol",
     "dhf_kj_mol",
@@ -55,6 +77,8 @@ _NUMERIC = (
     "mk_b_j_molk2",
     "mk_c_jk_mol",
     "mk_tmax_k",
+    "v_cm3_mol",
+    *HKF_COLUMNS,
 )
 # quantity stems people write for the numeric columns, mapped to our column
 _STEMS = {
@@ -77,11 +101,49 @@ _STEMS = {
     "mk_c": "mk_c_jk_mol",
     "mk_tmax": "mk_tmax_k",
     "tmax": "mk_tmax_k",
+    "v": "v_cm3_mol",
+    "v0": "v_cm3_mol",
+    "volume": "v_cm3_mol",
 }
 _SOURCE_COLUMNS = ("key", "citation", "note")
 _NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?")
 _FORM = re.compile(r"[A-Za-z0-9][A-Za-z0-9_.\- ]*")
 _CAS = re.compile(r"(\d{2,7})-(\d{2})-(\d)")
+
+
+@dataclass(frozen=True)
+class HKFParameters:
+    """Revised-HKF equation-of-state parameters of one aqueous species (unscaled).
+
+    Attributes
+    ----------
+    a1 : float
+        [cal/(mol bar)]
+    a2 : float
+        [cal/mol]
+    a3 : float
+        [cal K/(mol bar)]
+    a4 : float
+        [cal K/mol]
+    c1 : float
+        [cal/(mol K)]
+    c2 : float
+        [cal K/mol]
+    omega : float
+        Born coefficient at 298.15 K, 1 bar [cal/mol].
+
+    References
+    ----------
+    Tanger, J. C.; Helgeson, H. C. Am. J. Sci. 288, 19-98 (1988).
+    """
+
+    a1: float
+    a2: float
+    a3: float
+    a4: float
+    c1: float
+    c2: float
+    omega: float
 
 
 @dataclass(frozen=True)
@@ -111,6 +173,12 @@ class Species:
         Maier-Kelley coefficients, Cp = a + bT + c/T^2 [J/(mol K), J/(mol K^2), J K/mol].
     mk_tmax_k : float or None
         Upper limit of the Maier-Kelley fit [K].
+    v_cm3_mol : float or None
+        Standard molar volume, for the pressure term of solids [cm3/mol].
+    hkf : HKFParameters or None
+        Revised-HKF parameters of an aqueous species (unscaled, calories).
+    hkf_source : str or None
+        Source key of the HKF parameters when it differs from ``source``.
     metastable : bool
         A metastable form users may include or exclude.
     cas : str or None
@@ -135,6 +203,9 @@ class Species:
     mk_b_j_molk2: float | None = None
     mk_c_jk_mol: float | None = None
     mk_tmax_k: float | None = None
+    v_cm3_mol: float | None = None
+    hkf: HKFParameters | None = None
+    hkf_source: str | None = None
     metastable: bool = False
     cas: str | None = None
     source: str = ""
@@ -705,6 +776,14 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems) ->
     if mk and len(mk) != 3:
         missing = [n for n in ("mk_a_j_molk", "mk_b_j_molk2", "mk_c_jk_mol") if n not in mk]
         add(mk[0], f"Maier-Kelley coefficients come as a set: missing {', '.join(missing)}")
+    hkf_given = [n for n in HKF_COLUMNS if values.get(n) is not None]
+    if hkf_given and len(hkf_given) != len(HKF_COLUMNS):
+        missing = [n for n in HKF_COLUMNS if n not in hkf_given]
+        add(hkf_given[0], f"HKF parameters come as a set: missing {', '.join(missing)}")
+    if hkf_given and phase and phase != "aq":
+        add(hkf_given[0], f"HKF parameters are for aqueous species, not phase {phase!r}")
+    if values.get("v_cm3_mol") is not None and values["v_cm3_mol"] <= 0 and phase == "s":
+        add("v_cm3_mol", f"v_cm3_mol {values['v_cm3_mol']} must be > 0 for a solid")
     if values.get("mk_tmax_k") is not None and values["mk_tmax_k"] <= 298.15:
         add("mk_tmax_k", f"mk_tmax_k {values['mk_tmax_k']} K must be above 298.15 K")
     if (
@@ -724,13 +803,16 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems) ->
         add("cas", f"cas {cas!r} is not a valid CAS number (form 1234-56-7, check digit)")
 
     source = cell("source")
-    if source and known_sources is not None and source not in known_sources:
-        close = difflib.get_close_matches(source, list(known_sources), n=3)
-        hint = f"; did you mean {', '.join(close)}?" if close else ""
-        add(
-            "source",
-            f"unknown source key {source!r}{hint} (known keys: {', '.join(sorted(known_sources))})",
-        )
+    hkf_source = cell("hkf_source") or None
+    for column, key in (("source", source), ("hkf_source", hkf_source)):
+        if key and known_sources is not None and key not in known_sources:
+            close = difflib.get_close_matches(key, list(known_sources), n=3)
+            hint = f"; did you mean {', '.join(close)}?" if close else ""
+            add(
+                column,
+                f"unknown source key {key!r}{hint} "
+                f"(known keys: {', '.join(sorted(known_sources))})",
+            )
 
     if len(problems) > n0 or formula is None or values.get("dgf_kj_mol") is None:
         return None
@@ -749,12 +831,22 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems) ->
         mk_b_j_molk2=values["mk_b_j_molk2"],
         mk_c_jk_mol=values["mk_c_jk_mol"],
         mk_tmax_k=values["mk_tmax_k"],
+        v_cm3_mol=values["v_cm3_mol"],
+        hkf=_hkf_parameters(values),
+        hkf_source=hkf_source,
         metastable=meta == "yes",
         cas=cas,
         source=source,
         note=cell("note"),
         origin=f"{display}:{lineno}",
     )
+
+
+def _hkf_parameters(values: Mapping[str, float | None]) -> HKFParameters | None:
+    """The row's HKF parameters (validated as a complete set), or None."""
+    if any(values.get(n) is None for n in HKF_COLUMNS):
+        return None
+    return HKFParameters(*(float(values[n]) for n in HKF_COLUMNS))
 
 
 # --------------------------------------------------------------------------- data sets
@@ -816,12 +908,13 @@ def _value_summary(sp: Species) -> str:
 def _dropped(old: Species, new: Species) -> str:
     lost = [
         n
-        for n in ("dhf_kj_mol", "s_j_molk", "cp_j_molk", "mk_a_j_molk")
+        for n in ("dhf_kj_mol", "s_j_molk", "cp_j_molk", "mk_a_j_molk", "hkf")
         if getattr(old, n) is not None and getattr(new, n) is None
     ]
     if not lost:
         return ""
-    names = ", ".join("Maier-Kelley Cp" if n == "mk_a_j_molk" else n for n in lost)
+    words = {"mk_a_j_molk": "Maier-Kelley Cp", "hkf": "HKF parameters"}
+    names = ", ".join(words.get(n, n) for n in lost)
     return f"; the new row gives no {names}, so none is used"
 
 
