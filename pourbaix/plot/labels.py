@@ -1,0 +1,731 @@
+"""Label placement without overlaps: domain labels, boxed labels with leaders, numbered callouts and their key, line labels, point labels.
+
+Placement works in display units (pixels) after the axes are laid out; a
+greedy placer keeps every box taken so far and the axes frame.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from pourbaix.plot.style import (
+    BOX_PAD_PT,
+    INK,
+    LABEL_SIZE,
+    SMALL_LABEL_SIZE,
+    get_renderer,
+)
+
+__all__ = [
+    "Placer",
+    "draw_key",
+    "label_domains",
+    "label_line",
+    "label_neutral",
+    "label_pending",
+    "label_points",
+    "needs_numbers",
+    "number_pending",
+]
+
+
+# ------------------------------------------------------------- placement
+class Placer:
+    """Greedy label placement in display coordinates (pixels).
+
+    Keeps the boxes already taken and the axes frame; a candidate box is free
+    when it lies inside the frame and overlaps no taken box.
+    """
+
+    def __init__(self, ax, renderer):
+        self.ax = ax
+        self.renderer = renderer
+        self.px_per_pt = ax.figure.dpi / 72.0
+        self.pad = BOX_PAD_PT * self.px_per_pt
+        b = ax.bbox
+        self.frame = (b.x0 + self.pad, b.y0 + self.pad, b.x1 - self.pad, b.y1 - self.pad)
+        self.boxes = np.zeros((0, 4))
+        self.lines = []  # boundary segments in display units, kept clear by line labels
+        self.leaders = []  # leader lines drawn so far, display units
+
+    def add_lines(self, segments_data):
+        """Register boundary segments (data units) that line labels should not cross."""
+        for a, b in segments_data:
+            self.lines.append(
+                (tuple(self.ax.transData.transform(a)), tuple(self.ax.transData.transform(b)))
+            )
+
+    def crosses_lines(self, box, clearance_pt=3.0):
+        """Whether a box (grown by the clearance) crosses a registered boundary segment."""
+        c = clearance_pt * self.px_per_pt
+        grown = (box[0] - c, box[1] - c, box[2] + c, box[3] + c)
+        return bool(_segments_hit_boxes(self.lines, [grown])[0])
+
+    def measure(self, text):
+        """Width, height and centre offset of a text artist's box [px]."""
+        text.set_position((0.0, 0.0))
+        tr = text.get_transform()
+        text.set_transform(self.ax.transData)
+        ext = text.get_window_extent(self.renderer)
+        anchor = self.ax.transData.transform((0.0, 0.0))
+        text.set_transform(tr)
+        return (
+            ext.width,
+            ext.height,
+            ext.x0 + ext.width / 2 - anchor[0],
+            ext.y0 + ext.height / 2 - anchor[1],
+        )
+
+    def inside_frame(self, boxes):
+        """Tell which boxes lie inside the axes frame (less the clearance)."""
+        f = self.frame
+        return (
+            (boxes[:, 0] >= f[0])
+            & (boxes[:, 1] >= f[1])
+            & (boxes[:, 2] <= f[2])
+            & (boxes[:, 3] <= f[3])
+        )
+
+    def clear(self, boxes):
+        """Tell where a box (padded by the clearance) lies in the frame and overlaps no taken box."""
+        ok = self.inside_frame(boxes)
+        if len(self.boxes):
+            p = self.pad
+            b = boxes[:, None, :]
+            t = self.boxes[None, :, :]
+            hit = (
+                (b[..., 0] - p < t[..., 2])
+                & (b[..., 2] + p > t[..., 0])
+                & (b[..., 1] - p < t[..., 3])
+                & (b[..., 3] + p > t[..., 1])
+            )
+            ok &= ~hit.any(axis=1)
+        return ok
+
+    def take(self, box):
+        """Mark a box [px] as taken."""
+        self.boxes = np.vstack([self.boxes, np.asarray(box, dtype=float)[None, :]])
+
+    def to_data(self, xy):
+        """Convert display coordinates [px] to data coordinates."""
+        return self.ax.transData.inverted().transform(xy)
+
+
+def _boxes_at(centres, w, h):
+    c = np.atleast_2d(centres)
+    return np.column_stack([c[:, 0] - w / 2, c[:, 1] - h / 2, c[:, 0] + w / 2, c[:, 1] + h / 2])
+
+
+def _segment_hits_box(p, q, box):
+    """Whether segment p-q crosses an axis-aligned box (Liang-Barsky clipping)."""
+    x0, y0 = p
+    dx, dy = q[0] - p[0], q[1] - p[1]
+    t0, t1 = 0.0, 1.0
+    for pk, qk in ((-dx, x0 - box[0]), (dx, box[2] - x0), (-dy, y0 - box[1]), (dy, box[3] - y0)):
+        if pk == 0:
+            if qk < 0:
+                return False
+        else:
+            r = qk / pk
+            if pk < 0:
+                t0 = max(t0, r)
+            else:
+                t1 = min(t1, r)
+            if t0 > t1:
+                return False
+    return True
+
+
+def _segments_hit_boxes(segments, boxes):
+    """For each box, whether any segment crosses it (Liang-Barsky, vectorised).
+
+    Parameters
+    ----------
+    segments : sequence of ((x, y), (x, y))
+        Segment end points [px].
+    boxes : array_like, shape (K, 4)
+        ``(x0, y0, x1, y1)`` per box [px].
+
+    Returns
+    -------
+    ndarray of bool, shape (K,)
+    """
+    boxes = np.atleast_2d(np.asarray(boxes, dtype=float))
+    if len(segments) == 0:
+        return np.zeros(len(boxes), dtype=bool)
+    s = np.asarray(segments, dtype=float).reshape(-1, 4)
+    x0, y0 = s[:, 0], s[:, 1]  # (S,)
+    dx, dy = s[:, 2] - x0, s[:, 3] - y0
+    bx0, by0, bx1, by1 = (boxes[:, k : k + 1] for k in range(4))  # (K, 1)
+    # the four clipping conditions p_k t <= q_k, each broadcast to (K, S)
+    shape = (len(boxes), len(s))
+    pk = np.stack([np.broadcast_to(v, shape) for v in (-dx, dx, -dy, dy)])
+    qk = np.stack([np.broadcast_to(v, shape) for v in (x0 - bx0, bx1 - x0, y0 - by0, by1 - y0)])
+    parallel_out = np.any((pk == 0) & (qk < 0), axis=0)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        r = qk / pk
+    t0 = np.max(np.where(pk < 0, r, 0.0), axis=0)
+    t1 = np.min(np.where(pk > 0, r, 1.0), axis=0)
+    return np.any(~parallel_out & (t0 <= t1), axis=1)
+
+
+def _segments_cross(p, q, a, b):
+    """Whether segments p-q and a-b properly intersect (orientation test)."""
+
+    def orient(u, v, w):
+        return (v[0] - u[0]) * (w[1] - u[1]) - (v[1] - u[1]) * (w[0] - u[0])
+
+    d1, d2 = orient(a, b, p), orient(a, b, q)
+    d3, d4 = orient(p, q, a), orient(p, q, b)
+    return (d1 * d2 < 0) and (d3 * d4 < 0)
+
+
+def _nearest_on_box(p, box):
+    return (min(max(p[0], box[0]), box[2]), min(max(p[1], box[1]), box[3]))
+
+
+def _display_polygon(ax, polygon):
+    from shapely.geometry import Polygon
+
+    xy = ax.transData.transform(np.asarray(polygon.exterior.coords))
+    return Polygon(xy)
+
+
+def _fit_inside(placer, poly_px, w, h, soft_lines=()):
+    """Centre for a w x h label box inside a display polygon; None if none fits.
+
+    Candidates on a grid over the polygon are kept if the box (with the
+    clearance) lies inside and is free; among them the one with the most room
+    around the box wins (distance to the edge measured with x scaled by the
+    box's aspect, so a wide label looks for a wide spot), ties going to the
+    spot nearest the centroid. Spots whose box a water line crosses are used
+    only when there is no other.
+    """
+    import shapely
+    from shapely import affinity
+
+    shrunk = poly_px.buffer(-placer.pad)
+    if shrunk.is_empty or shrunk.geom_type != "Polygon":
+        return None
+    x0, y0, x1, y1 = shrunk.bounds
+    if x1 - x0 < w or y1 - y0 < h:
+        return None
+    gx = np.linspace(x0 + w / 2, x1 - w / 2, 31)
+    gy = np.linspace(y0 + h / 2, y1 - h / 2, 21)
+    cx, cy = np.meshgrid(gx, gy)
+    centres = np.column_stack([cx.ravel(), cy.ravel()])
+    boxes = _boxes_at(centres, w, h)
+    ok = shapely.contains(shrunk, shapely.box(boxes[:, 0], boxes[:, 1], boxes[:, 2], boxes[:, 3]))
+    ok &= placer.clear(boxes)
+    if not ok.any():
+        return None
+    k = np.flatnonzero(ok)
+    sx = h / max(w, 1e-9)
+    scaled = affinity.scale(poly_px, xfact=sx, yfact=1.0, origin=(0, 0))
+    pts = shapely.points(centres[k, 0] * sx, centres[k, 1])
+    room = shapely.distance(pts, scaled.exterior)
+    cen = scaled.centroid
+    near = np.hypot(centres[k, 0] * sx - cen.x, centres[k, 1] - cen.y)
+    score = room - 0.15 * near
+    if soft_lines:
+        c = 1.5 * placer.px_per_pt
+        crossed = _segments_hit_boxes(soft_lines, boxes[k] + np.array([-c, -c, c, c]))
+        if not crossed.all():
+            score = np.where(crossed, -np.inf, score)
+    return tuple(centres[k[int(np.argmax(score))]])
+
+
+def _place_outside(placer, pole_px, w, h, avoid_points, avoid_polys):
+    """Centre for a boxed label outside its domain, with a leader to the pole."""
+    import shapely
+
+    ppt = placer.px_per_pt
+    radii = np.array([10, 16, 24, 34, 46, 60, 78, 100, 128, 160, 200, 250, 310, 380]) * ppt
+    angles = np.deg2rad(np.arange(0, 360, 15) + 7.5)
+    rr, aa = np.meshgrid(radii, angles, indexing="ij")
+    rr, aa = rr.ravel(), aa.ravel()
+    cx = pole_px[0] + np.cos(aa) * (rr + w / 2)
+    cy = pole_px[1] + np.sin(aa) * (rr + h / 2)
+    centres = np.column_stack([cx, cy])
+    boxes = _boxes_at(centres, w, h)
+    ok = placer.clear(boxes)
+    if not ok.any():
+        # the whole axes as a last resort: any free spot, nearest first
+        f = placer.frame
+        gx, gy = np.meshgrid(
+            np.linspace(f[0] + w / 2, f[2] - w / 2, 40), np.linspace(f[1] + h / 2, f[3] - h / 2, 30)
+        )
+        centres = np.column_stack([gx.ravel(), gy.ravel()])
+        boxes = _boxes_at(centres, w, h)
+        rr = np.hypot(centres[:, 0] - pole_px[0], centres[:, 1] - pole_px[1])
+        ok = placer.clear(boxes)
+        if not ok.any():
+            return None
+    score = rr.astype(float).copy()
+    score[~ok] = np.inf
+    idx = np.flatnonzero(ok)
+    # leaders should not run through labels already placed, nor cross other leaders
+    for k in idx:
+        q = _nearest_on_box(pole_px, boxes[k])
+        if any(_segment_hits_box(pole_px, q, tb) for tb in placer.boxes):
+            score[k] += 400 * ppt
+        score[k] += 70 * ppt * sum(_segments_cross(pole_px, q, a, b) for a, b in placer.leaders)
+    # keep off the label points and tiny domains of labels still to be placed
+    if len(avoid_points):
+        ap = np.asarray(avoid_points)
+        inside = (
+            (ap[None, :, 0] >= boxes[:, None, 0] - 6 * ppt)
+            & (ap[None, :, 0] <= boxes[:, None, 2] + 6 * ppt)
+            & (ap[None, :, 1] >= boxes[:, None, 1] - 6 * ppt)
+            & (ap[None, :, 1] <= boxes[:, None, 3] + 6 * ppt)
+        )
+        score += 120 * ppt * inside.sum(axis=1)
+    if avoid_polys:
+        geoms = shapely.box(boxes[idx, 0], boxes[idx, 1], boxes[idx, 2], boxes[idx, 3])
+        for poly in avoid_polys:
+            inter = shapely.area(shapely.intersection(geoms, poly))
+            score[idx] += 60 * ppt * (inter / max(w * h, 1.0)) * 10
+    best = int(np.argmin(score))
+    return tuple(centres[best]) if np.isfinite(score[best]) else None
+
+
+def label_domains(ax, dmap, renderer, colours=None, *, light=False, fixed=(), soft_lines=()):
+    """Place one label per domain; returns the placer (boxes taken) for later labels."""
+    placer = Placer(ax, renderer)
+    for box in fixed:
+        placer.take(box)
+    colour = "#5a5a5a" if light else INK
+    polys_px = [_display_polygon(ax, d.polygon) for d in dmap.domains]
+    poles_px = [tuple(ax.transData.transform(d.label_point)) for d in dmap.domains]
+    order = sorted(range(len(dmap.domains)), key=lambda i: -dmap.domains[i].area)
+    pending = []
+    for i in order:
+        d = dmap.domains[i]
+        placed = False
+        for size in (LABEL_SIZE - (1.0 if light else 0.0), SMALL_LABEL_SIZE):
+            t = ax.text(
+                0, 0, d.label, fontsize=size, ha="center", va="center", color=colour, zorder=6
+            )
+            w, h, ox, oy = placer.measure(t)
+            c = _fit_inside(placer, polys_px[i], w, h, soft_lines)
+            if c is not None:
+                box = _boxes_at(c, w, h)[0]
+                t.set_position(placer.to_data((c[0] - ox, c[1] - oy)))
+                if colours is not None:
+                    face = _mix_white(colours[i], 0.45) if light else colours[i]
+                    t.set_bbox(
+                        dict(
+                            boxstyle="square,pad=0.08",
+                            facecolor=face,
+                            edgecolor="none",
+                            alpha=0.8 if light else 1.0,
+                        )
+                    )
+                t.set_gid(f"pourbaix-label:domain:{i}")
+                placer.take(box)
+                placed = True
+                break
+            t.remove()
+        if not placed:
+            pending.append(i)
+    return placer, pending, polys_px, poles_px
+
+
+def _mix_white(colour, alpha):
+    """Return the colour seen when ``colour`` is laid on white with ``alpha``."""
+    from matplotlib.colors import to_rgb
+
+    r, g, b = to_rgb(colour)
+    return (1 - alpha + alpha * r, 1 - alpha + alpha * g, 1 - alpha + alpha * b)
+
+
+def label_pending(ax, dmap, placer, pending, polys_px, poles_px, *, light=False):
+    """Labels that do not fit their domain: outside, boxed, with a leader line."""
+    colour = "#5a5a5a" if light else INK
+    pending = sorted(pending, key=lambda i: dmap.domains[i].area)
+    tiny = [shp for k, shp in enumerate(polys_px) if k in pending]
+    for n, i in enumerate(pending):
+        d = dmap.domains[i]
+        size = SMALL_LABEL_SIZE - (0.5 if light else 0.0)
+        t = ax.text(0, 0, d.label, fontsize=size, ha="center", va="center", color=colour, zorder=8)
+        w, h, ox, oy = placer.measure(t)
+        bpad = 0.18 * size * placer.px_per_pt  # the white box drawn around the text
+        W, H = w + 2 * bpad, h + 2 * bpad
+        others = [poles_px[k] for k in pending[n + 1 :]]
+        c = _place_outside(
+            placer,
+            poles_px[i],
+            W,
+            H,
+            others,
+            [p for k, p in zip(pending, tiny, strict=True) if k != i],
+        )
+        if c is None:  # nowhere free at all: shrink once more, then give up on the box
+            t.set_fontsize(6.5)
+            w, h, ox, oy = placer.measure(t)
+            bpad = 0.18 * 6.5 * placer.px_per_pt
+            W, H = w + 2 * bpad, h + 2 * bpad
+            c = _place_outside(placer, poles_px[i], W, H, [], [])
+            if c is None:
+                c = tuple(poles_px[i])
+        box = _boxes_at(c, W, H)[0]
+        t.set_position(placer.to_data((c[0] - ox, c[1] - oy)))
+        t.set_bbox(
+            dict(
+                boxstyle="round,pad=0.18,rounding_size=0.25",
+                facecolor="white",
+                edgecolor="#6b6b6b",
+                linewidth=0.5,
+                alpha=0.94,
+            )
+        )
+        t.set_gid(f"pourbaix-label:domain:{i}")
+        placer.take(box)
+        q = _nearest_on_box(poles_px[i], box)
+        placer.leaders.append((tuple(poles_px[i]), q))
+        a, b = placer.to_data(poles_px[i]), placer.to_data(q)
+        ax.plot(
+            [a[0], b[0]],
+            [a[1], b[1]],
+            color="#3c3c3c",
+            lw=0.6,
+            zorder=7,
+            solid_capstyle="round",
+            gid=f"pourbaix-leader:{i}",
+        )
+        ax.plot(
+            [a[0]], [a[1]], "o", ms=2.4, color="#1f1f1f", zorder=7.5, gid=f"pourbaix-leader-dot:{i}"
+        )
+
+
+# ------------------------------------------------------------- numbered key
+_MAX_OUTSIDE_LABELS = 6  # more labels than this that do not fit inside: number them instead
+_OUTSIDE_SHARE = 0.05  # or one outside label box covering more than this share of the axes
+_OUTSIDE_TOTAL_SHARE = 0.15  # or all outside label boxes together covering more than this
+_NUMBER_SIZES = (7.0, 6.0)  # [pt] number in its circle: usual, then shrunk
+_NUMBER_PAD = 0.22  # circle padding, in units of the font size
+_KEY_SIZE = 8.0  # [pt] label text in the key
+_KEY_GAP_PT = 10.0  # [pt] between the axes decorations and the key, and between key columns
+
+
+def needs_numbers(ax, dmap, placer, pending):
+    """Whether the labels that do not fit inside should become numbered markers.
+
+    True when they are more than :data:`_MAX_OUTSIDE_LABELS`, or when their
+    boxes outside would cover a large share of the axes (one box over
+    :data:`_OUTSIDE_SHARE`, all together over :data:`_OUTSIDE_TOTAL_SHARE`).
+    """
+    if len(pending) > _MAX_OUTSIDE_LABELS:
+        return True
+    if not pending:
+        return False
+    area = max(ax.bbox.width * ax.bbox.height, 1.0)
+    shares = []
+    for i in pending:
+        t = ax.text(0, 0, dmap.domains[i].label, fontsize=SMALL_LABEL_SIZE)
+        w, h, _, _ = placer.measure(t)
+        t.remove()
+        bpad = 0.18 * SMALL_LABEL_SIZE * placer.px_per_pt
+        shares.append((w + 2 * bpad) * (h + 2 * bpad) / area)
+    return max(shares) > _OUTSIDE_SHARE or sum(shares) > _OUTSIDE_TOTAL_SHARE
+
+
+def _number_text(ax, n, size, gid, **kw):
+    return ax.text(
+        0,
+        0,
+        str(n),
+        fontsize=size,
+        ha="center",
+        va="center",
+        color=INK,
+        gid=gid,
+        bbox=dict(
+            boxstyle=f"circle,pad={_NUMBER_PAD}",
+            facecolor="white",
+            edgecolor="#4a4a4a",
+            linewidth=0.6,
+        ),
+        **kw,
+    )
+
+
+def _circle_size(placer, t, size):
+    """Width and height of the circle drawn around a number, and the text's centre offset [px]."""
+    w, h, ox, oy = placer.measure(t)
+    d = max(w, h) + 2 * _NUMBER_PAD * size * placer.px_per_pt
+    return d, ox, oy
+
+
+def number_pending(ax, dmap, placer, pending, polys_px, poles_px):
+    """Mark each domain in ``pending`` by a number in a small circle; return {domain: number}.
+
+    Numbers run in reading order of the label points (top to bottom, then
+    left to right). A number sits at its domain's label point when that spot
+    is free, else at the roomiest free spot inside the domain, else in a
+    smaller size; failing all, just outside with a short leader. Numbers
+    never overlap each other or the labels already placed.
+    """
+    import shapely
+
+    ppt = placer.px_per_pt
+    # reading order in bands of ~14 pt so nearly level points read left to right
+    band = 14 * ppt
+    order = sorted(pending, key=lambda i: (-round(poles_px[i][1] / band), poles_px[i][0]))
+    numbers = {i: n for n, i in enumerate(order, start=1)}
+    for i in sorted(pending, key=lambda k: dmap.domains[k].area):
+        gid = f"pourbaix-label:number:{i}"
+        pole = poles_px[i]
+        done = False
+        for size in _NUMBER_SIZES:
+            t = _number_text(ax, numbers[i], size, gid, zorder=8)
+            d, ox, oy = _circle_size(placer, t, size)
+            box = _boxes_at(pole, d, d)
+            c = None
+            if placer.clear(box)[0] and polys_px[i].contains(shapely.Point(pole)):
+                c = tuple(pole)
+            else:
+                c = _fit_inside(placer, polys_px[i], d, d)
+            if c is not None:
+                t.set_position(placer.to_data((c[0] - ox, c[1] - oy)))
+                placer.take(_boxes_at(c, d, d)[0])
+                done = True
+                break
+            t.remove()
+        if done:
+            continue
+        size = _NUMBER_SIZES[-1]
+        t = _number_text(ax, numbers[i], size, gid, zorder=8)
+        d, ox, oy = _circle_size(placer, t, size)
+        c = _place_outside(placer, pole, d, d, [], [])
+        if c is None:  # no free spot anywhere in the axes: at the point regardless
+            c = tuple(pole)
+        box = _boxes_at(c, d, d)[0]
+        t.set_position(placer.to_data((c[0] - ox, c[1] - oy)))
+        placer.take(box)
+        q = _nearest_on_box(pole, box)
+        placer.leaders.append((tuple(pole), q))
+        a, b = placer.to_data(pole), placer.to_data(q)
+        ax.plot(
+            [a[0], b[0]],
+            [a[1], b[1]],
+            color="#3c3c3c",
+            lw=0.6,
+            zorder=7,
+            gid=f"pourbaix-leader:{i}",
+        )
+        ax.plot(
+            [a[0]], [a[1]], "o", ms=2.0, color="#1f1f1f", zorder=7.5, gid=f"pourbaix-leader-dot:{i}"
+        )
+    return numbers
+
+
+def draw_key(ax, dmap, numbers, renderer, *, grow):
+    """List "number  label" for the numbered domains to the right of the axes.
+
+    Entries fill columns as tall as the axes, as many columns as needed. When
+    ``grow`` is true (a figure of our own) the figure is widened so the key
+    fits and the axes keep their size in inches; on a user's axes the key is
+    placed the same way and the user sizes the figure.
+    """
+    fig = ax.figure
+    ppt = fig.dpi / 72.0
+    entries = sorted(numbers.items(), key=lambda kv: kv[1])
+    tight = ax.get_tightbbox(renderer)
+    right_pt = max(tight.x1 - ax.bbox.x1, 0.0) / ppt + _KEY_GAP_PT
+    line_pt = _KEY_SIZE * 1.75
+    height_pt = ax.bbox.height / ppt
+    rows = max(1, int(height_pt // line_pt))
+    ncol = math.ceil(len(entries) / rows)
+    rows = math.ceil(len(entries) / ncol)
+    num_w_pt = (_KEY_SIZE - 1.0) * 1.9  # room for a two-digit number in its circle
+    x_pt = right_pt
+    for col in range(ncol):
+        chunk = entries[col * rows : (col + 1) * rows]
+        widest = 0.0
+        for r, (i, n) in enumerate(chunk):
+            y_pt = -(r + 0.5) * line_pt
+            num = ax.annotate(
+                str(n),
+                xy=(1.0, 1.0),
+                xycoords="axes fraction",
+                xytext=(x_pt + num_w_pt / 2, y_pt),
+                textcoords="offset points",
+                ha="center",
+                va="center",
+                fontsize=_KEY_SIZE - 1.0,
+                color=INK,
+                annotation_clip=False,
+                gid=f"pourbaix-key-number:{i}",
+                bbox=dict(
+                    boxstyle=f"circle,pad={_NUMBER_PAD}",
+                    facecolor="white",
+                    edgecolor="#4a4a4a",
+                    linewidth=0.6,
+                ),
+            )
+            lab = ax.annotate(
+                dmap.domains[i].label,
+                xy=(1.0, 1.0),
+                xycoords="axes fraction",
+                xytext=(x_pt + num_w_pt + 4.0, y_pt),
+                textcoords="offset points",
+                ha="left",
+                va="center",
+                fontsize=_KEY_SIZE,
+                color=INK,
+                annotation_clip=False,
+                gid=f"pourbaix-key:{i}",
+            )
+            del num
+            widest = max(widest, lab.get_window_extent(renderer).width / ppt)
+        x_pt += num_w_pt + 4.0 + widest + _KEY_GAP_PT
+    if grow:
+        w, h = fig.get_size_inches()
+        need_in = (ax.bbox.x1 / ppt + x_pt) / 72.0
+        if need_in > w:
+            pos = ax.get_position()
+            fig.set_size_inches(need_in, h)
+            fig.subplots_adjust(left=pos.x0 * w / need_in, right=pos.x1 * w / need_in)
+
+
+def label_line(
+    ax, placer, text, e0, slope, *, colour, size=8.0, above=True, gid="pourbaix-label:line"
+):
+    """Label a straight line E = e0 + slope pH along it, at the first free spot.
+
+    Spots are tried from the right end leftwards, on the preferred side of
+    the line and then on the other; one whose box crosses no boundary is
+    preferred, then any spot clear of the other labels.
+    """
+    x0, x1 = ax.get_xlim()
+    y0, y1 = ax.get_ylim()
+    t = ax.text(
+        0,
+        0,
+        text,
+        fontsize=size,
+        color=colour,
+        ha="center",
+        va="center",
+        zorder=6,
+        rotation_mode="anchor",
+    )
+    tr = ax.transData
+    fallback = None
+    spots = [(f, side) for side in (above, not above) for f in np.linspace(0.9, 0.06, 36)]
+    for f, side in spots:
+        ph = x0 + f * (x1 - x0)
+        e = e0 + slope * ph
+        if not (y0 < e < y1):
+            continue
+        p = tr.transform((ph, e))
+        q = tr.transform((ph + 1.0, e + slope))
+        ang = math.degrees(math.atan2(q[1] - p[1], q[0] - p[0]))
+        t.set_rotation(ang)
+        # centre the text a little above (or below) the line, measured across the line
+        hh = 0.66 * size * placer.px_per_pt
+        nx, ny = -math.sin(math.radians(ang)), math.cos(math.radians(ang))
+        sgn = 1.0 if side else -1.0
+        c = (p[0] + sgn * nx * hh, p[1] + sgn * ny * hh)
+        t.set_position(placer.to_data(c))
+        ext = t.get_window_extent(placer.renderer)
+        box = np.array([[ext.x0, ext.y0, ext.x1, ext.y1]])
+        if placer.clear(box)[0]:
+            if not placer.crosses_lines(box[0]):
+                placer.take(box[0])
+                t.set_gid(gid)
+                return t
+            if fallback is None:
+                fallback = (ang, c, box[0])
+    if fallback is not None:
+        ang, c, box = fallback
+        t.set_rotation(ang)
+        t.set_position(placer.to_data(c))
+        placer.take(box)
+        t.set_gid(gid)
+        return t
+    t.remove()
+    return None
+
+
+def label_neutral(ax, placer, neutral):
+    """Small note beside the neutral-pH line, upright or level, at a free spot."""
+    y0, y1 = ax.get_ylim()
+    t = ax.text(
+        0, 0, f"neutral pH {neutral:.2f}", fontsize=7, color="#262626", va="center", zorder=6
+    )
+    fallback = None
+    for rotation in (90, 0):
+        t.set_rotation(rotation)
+        for f in (0.86, 0.14, 0.75, 0.25, 0.64, 0.36, 0.5, 0.95, 0.05):
+            for side in (1, -1):
+                t.set_ha("left" if side > 0 else "right")
+                p = ax.transData.transform((neutral, y0 + f * (y1 - y0)))
+                t.set_position(placer.to_data((p[0] + side * 3.0 * placer.px_per_pt, p[1])))
+                ext = t.get_window_extent(placer.renderer)
+                box = np.array([[ext.x0, ext.y0, ext.x1, ext.y1]])
+                if placer.clear(box)[0]:
+                    if not placer.crosses_lines(box[0], clearance_pt=1.5):
+                        placer.take(box[0])
+                        t.set_gid("pourbaix-label:neutral")
+                        return t
+                    if fallback is None:
+                        fallback = (rotation, t.get_ha(), t.get_position(), box[0])
+    if fallback is not None:
+        rotation, ha, pos, box = fallback
+        t.set_rotation(rotation)
+        t.set_ha(ha)
+        t.set_position(pos)
+        placer.take(box)
+        t.set_gid("pourbaix-label:neutral")
+        return t
+    t.remove()
+    return None
+
+
+def label_points(ax, x, y, labels):
+    """Label field points beside their markers, clear of every text already on the axes."""
+    renderer = get_renderer(ax.figure)
+    placer = Placer(ax, renderer)
+    for t in ax.texts:
+        if t.get_visible() and t.get_text():
+            e = t.get_window_extent(renderer)
+            placer.take((e.x0, e.y0, e.x1, e.y1))
+    ppt = placer.px_per_pt
+    pts = ax.transData.transform(np.column_stack([x, y]))
+    for p in pts:  # the markers themselves
+        r = 4 * ppt
+        placer.take((p[0] - r, p[1] - r, p[0] + r, p[1] + r))
+    offsets = [(1, 1), (1, -1), (-1, 1), (-1, -1), (1, 0), (-1, 0), (0, 1), (0, -1)]
+    for k, (p, text) in enumerate(zip(pts, labels, strict=True)):
+        t = ax.text(
+            0,
+            0,
+            text,
+            fontsize=7.5,
+            color="#111111",
+            ha="center",
+            va="center",
+            zorder=11,
+            gid=f"pourbaix-label:point:{k}",
+        )
+        t.set_bbox(dict(boxstyle="round,pad=0.12", facecolor="white", edgecolor="none", alpha=0.85))
+        w, h, ox, oy = placer.measure(t)
+        done = False
+        for dist in (5, 9, 14):
+            for sx, sy in offsets:
+                c = (p[0] + sx * (dist * ppt + w / 2), p[1] + sy * (dist * ppt + h / 2))
+                box = _boxes_at(c, w, h)
+                if placer.clear(box)[0]:
+                    t.set_position(placer.to_data((c[0] - ox, c[1] - oy)))
+                    placer.take(box[0])
+                    done = True
+                    break
+            if done:
+                break
+        if not done:  # crowded: next to the point anyway
+            c = (p[0] + 5 * ppt + w / 2, p[1] + 5 * ppt + h / 2)
+            t.set_position(placer.to_data((c[0] - ox, c[1] - oy)))
