@@ -922,6 +922,7 @@ def compute_system_map(
     metastable="exclude",
     table=None,
     warn=None,
+    ratio_method="walk",
     **_unused,
 ):
     """Map of a metal with ligands, or of several metals at a fixed ratio (or both).
@@ -973,6 +974,11 @@ def compute_system_map(
         Pre-loaded tables.
     warn : list of str, optional
         Warnings gathered by the caller.
+    ratio_method : {"walk", "enumerate"}
+        Several metals without ligands: walk the optimal bases of the linear
+        programme (multi-parametric LP, cost grows with the domains) or
+        enumerate every combination matching the ratio (the reference).
+        Ligand systems always enumerate.
 
     Returns
     -------
@@ -1074,7 +1080,19 @@ def compute_system_map(
 
     # candidates ("units"): single species, or combinations matching the ratio
     r = np.array(ratio_vals if ratio_vals is not None else (1.0,))
-    combos = ratio_combinations(counts, r)
+    if ratio_method not in ("walk", "enumerate"):
+        raise OptionError(f"ratio_method must be walk or enumerate, got {ratio_method!r}")
+    walked = ratio_vals is not None and not families and ratio_method == "walk"
+    if walked:
+        # multi-parametric LP: only the combinations optimal somewhere (DESIGN §2.11)
+        from pourbaix.solve import parametric_lp
+
+        costs = np.array([to_frame(tuple(p), off0, off1) for p in phis])
+        combos = parametric_lp.optimal_combinations(
+            costs, counts, r, (*ph_range, *potential_range_v)
+        )
+    else:
+        combos = ratio_combinations(counts, r)
     if not combos:
         raise ConditionsError(
             f"no combination of the {system} species matches the ratio {':'.join(f'{v:g}' for v in r)}"
@@ -1155,7 +1173,14 @@ def compute_system_map(
             f"({', '.join(elements)}): {len(units)} combination entries of up to {len(elements)} species "
             f"(from {len(metal_rows)} species) whose metal content matches the ratio with positive amounts, each "
             "with its energy per mole of metal; the cheapest is stable (the linear programme min sum n_s psi_s with the "
-            "metal balance, solved exactly through its basic solutions; Dantzig 1963). Metals are taken as pure phases (no alloy solution energy); "
+            "metal balance, solved exactly through its basic solutions; Dantzig 1963"
+            + (
+                "; the entries are the optimal bases found by walking the critical regions of the "
+                "multi-parametric programme, Gal & Nedoma 1972"
+                if walked
+                else ""
+            )
+            + "). Metals are taken as pure phases (no alloy solution energy); "
             "mixed compounds enter as the tables hold them. A metal's state reads 'corrosion' if any of it is "
             "dissolved, else 'passivation' if any is in a solid compound, else 'immunity'; the map's state is "
             f"that of {elements[0]}"
