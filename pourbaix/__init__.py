@@ -13,12 +13,20 @@ from pourbaix.errors import PourbaixError
 
 __version__ = "0.1.0"
 
-__all__ = ["PourbaixError", "compute_map", "DomainMap", "Conditions", "load_species", "__version__"]
+__all__ = [
+    "PourbaixError",
+    "compute_map",
+    "make_conditions",
+    "DomainMap",
+    "Conditions",
+    "load_species",
+    "__version__",
+]
 
 
 def __getattr__(name):
     # Lazy imports keep `import pourbaix` cheap for the command line.
-    if name in ("compute_map", "DomainMap", "Conditions", "compute_sweep"):
+    if name in ("compute_map", "DomainMap", "Conditions", "compute_sweep", "make_conditions"):
         from pourbaix.maps import domain_map
 
         return getattr(domain_map, name)

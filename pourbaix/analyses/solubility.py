@@ -24,7 +24,6 @@ wherever the map shows a dissolved species at its set activity.
 from __future__ import annotations
 
 import math
-import warnings
 from dataclasses import dataclass
 
 import numpy as np
@@ -97,7 +96,6 @@ def _get_map(dmap_or_element, conditions):
 
 def _model(dmap):
     from pourbaix.maps.domain_map import species_id, species_label, to_frame
-    from pourbaix.physics.thermo import nernst_factor
 
     c = dmap.conditions
     if len(c.elements) != 1 or c.ratio is not None:
@@ -127,20 +125,12 @@ def _model(dmap):
     log_g_map = np.log10([se.gamma for se in rows])
     log_g = log_g_map.copy()
     if c.ionic_strength and c.ionic_strength > 0 and c.activity_model:
-        from pourbaix.physics.solution import log_gamma
-
-        charges = np.array([se.species.charge for se in rows], dtype=float)
-        with warnings.catch_warnings():
-            warnings.simplefilter("ignore")  # the map already reported the model's range
-            # same call as the map's own activity coefficients (domain_map._conditions_context)
-            log_g = np.where(
-                dissolved,
-                np.asarray(
-                    log_gamma(charges, c.ionic_strength, c.temperature_c, model=c.activity_model),
-                    dtype=float,
-                ),
-                0.0,
-            )
+        # the map's own activity coefficients, computed once with its conditions
+        log_g = np.where(
+            dissolved,
+            [math.log10(c.activity_coefficient(se.species.charge)) for se in rows],
+            0.0,
+        )
     lig_planes = tuple(
         np.asarray(p, dtype=float) for p in (getattr(dmap, "_ligand_planes", None) or ())
     )
@@ -175,7 +165,7 @@ def _model(dmap):
         ligand_planes=lig_planes,
         ligand_names=lig_names,
         ligand_maps=lig_maps,
-        k=float(nernst_factor(c.temperature_c)),
+        k=float(c.nernst_v),
         window=dmap.window,
     )
 

@@ -427,9 +427,7 @@ def leach_window(
             "the maps of a window must share one pH/potential window and one reference electrode"
         )
 
-    from pourbaix.physics.thermo import nernst_factor
-
-    k = float(nernst_factor(tmap.conditions.temperature_c))
+    k = float(tmap.conditions.nernst_v)
     regions = {
         target: solubility_region(tmap, lo_level, side="above", basis=basis, tolerance=tolerance)
     }

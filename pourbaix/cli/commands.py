@@ -83,12 +83,12 @@ def _add_conditions(p, window=True):
     g = p.add_argument_group("conditions")
     g.add_argument("element", nargs="+", help="element symbol(s); several metals need --ratio")
     g.add_argument(
-        "--activity", type=_positive_float, help="activity of dissolved species (default 1e-6)"
+        "--activity", type=_positive_float, help="activity of dissolved species (default 1e-6; accepted 1e-20 to 10, noted outside 1e-12 to 1)"
     )
     g.add_argument(
         "--molality",
         type=_positive_float,
-        help="molality of dissolved species [mol/kg] (instead of --activity)",
+        help="molality of dissolved species [mol/kg] (instead of --activity; accepted 1e-20 to 20)",
     )
     if window:
         g.add_argument(
@@ -97,7 +97,7 @@ def _add_conditions(p, window=True):
             type=_float,
             metavar=("LO", "HI"),
             default=(-2.0, 16.0),
-            help="pH window (default -2 16)",
+            help="pH window (default -2 16; within -4 to 18)",
         )
         g.add_argument(
             "--potential",
@@ -105,7 +105,7 @@ def _add_conditions(p, window=True):
             type=_float,
             metavar=("LO", "HI"),
             default=(-2.0, 2.0),
-            help="potential window [V vs --reference] (default -2 2)",
+            help="potential window [V vs --reference] (default -2 2; within -5 to 5)",
         )
     g.add_argument(
         "--reference",
@@ -123,9 +123,9 @@ def _add_conditions(p, window=True):
         "--pressure",
         type=_positive_float,
         metavar="BAR",
-        help="pressure [bar] (default 1, or saturation above 100 °C)",
+        help="pressure [bar], up to 1000 (default 1, or saturation above 100 °C)",
     )
-    g.add_argument("--ionic-strength", type=_float, metavar="I", help="ionic strength [mol/kg]")
+    g.add_argument("--ionic-strength", type=_float, metavar="I", help="ionic strength [mol/kg], 0 to the model's limit")
     g.add_argument(
         "--background",
         metavar="SALT=M,...",
@@ -134,13 +134,13 @@ def _add_conditions(p, window=True):
     g.add_argument(
         "--activity-model",
         default="davies",
-        help="davies, extended-debye-huckel or b-dot (default davies)",
+        help="davies, extended-debye-huckel or b-dot (default davies; checked even without an ionic strength)",
     )
     g.add_argument(
         "--water-activity",
         type=_positive_float,
         default=1.0,
-        help="activity of water (below 1 for brines)",
+        help="activity of water, 0.05 to 1 (below 1 for brines; noted below 0.5)",
     )
     g.add_argument(
         "--ligand",
@@ -148,9 +148,9 @@ def _add_conditions(p, window=True):
         type=_ligand,
         default=[],
         metavar="NAME=A",
-        help="ligand total activity, e.g. S=1e-3, Cl=0.1, CN=1e-3 (repeatable)",
+        help="ligand total activity, e.g. S=1e-3, Cl=0.1, CN=1e-3 (repeatable, each ligand once; accepted 1e-20 to 20)",
     )
-    g.add_argument("--ratio", type=_ratio, help="amounts of the metals, e.g. 70:19:11 for Fe Cr Ni")
+    g.add_argument("--ratio", type=_ratio, help="amounts of the metals, e.g. 70:19:11 for Fe Cr Ni (largest at most 1e9 x smallest)")
     g.add_argument(
         "--exclude", nargs="+", default=[], metavar="SPECIES", help="species to leave out"
     )
@@ -183,7 +183,7 @@ def _map_kwargs(a):
         background=a.background,
         activity_model=a.activity_model,
         water_activity=a.water_activity,
-        ligands=dict(a.ligand) or None,
+        ligands=tuple(a.ligand) or None,  # pairs: a ligand given twice is refused, not overwritten
         ratio=a.ratio,
         ph_range=tuple(a.ph) if a.window else (-2.0, 16.0),
         potential_range_v=tuple(a.potential) if a.window else (-2.0, 2.0),
@@ -340,9 +340,9 @@ def cmd_species(a):
     for msg in table.overrides:
         print(f"pourbaix: note: {msg}", file=sys.stderr)
     els = set(a.element)
-    from pourbaix.maps.domain_map import _parse_elements
+    from pourbaix.conditions import parse_elements
 
-    _parse_elements(a.element)
+    parse_elements(a.element)
     rows = [s for s in table.for_elements(els) if els & set(s.composition)]
     if not rows:
         raise OptionError(

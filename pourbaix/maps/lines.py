@@ -80,9 +80,7 @@ def boundary_equations(dmap):
 
 
 def _nernst(dmap):
-    from pourbaix.physics.thermo import nernst_factor
-
-    return nernst_factor(dmap.conditions.temperature_c)
+    return dmap.conditions.nernst_v
 
 
 def _oriented(balance_pair, a, b, element):

@@ -29,32 +29,32 @@ from __future__ import annotations
 
 import itertools
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
+from pourbaix.conditions import Conditions, make_conditions
+from pourbaix.constants import F_KJ
 from pourbaix.errors import ConditionsError, OptionError, UnknownSpeciesError
-from pourbaix.maps.domain_map import (
+from pourbaix.maps.build import (
+    build_map,
+    dissolved_activity,
+    route_warnings,
+    to_frame,
+)
+from pourbaix.maps.result import (
     Boundary,
-    Conditions,
     Domain,
     DomainMap,
     Entry,
     ProbeResult,
-    _check_basics,
-    _check_range,
-    _conditions_context,
-    _reference_frame,
-    _route_warnings,
-    _state_of,
-    build_map,
-    dissolved_activity,
     species_id,
     species_label,
-    to_frame,
+    state_of,
 )
 from pourbaix.physics import energies, thermo
 from pourbaix.solve import envelope as solve
+from pourbaix.tables.ligands import LIGAND_ALIASES, LIGANDS, LigandFamily, resolve_ligand
 
 __all__ = [
     "LigandFamily",
@@ -67,177 +67,12 @@ __all__ = [
     "compute_system_map",
 ]
 
-_FARADAY_KJ = thermo.F / 1000.0  # kJ/(mol V)
+_FARADAY_KJ = F_KJ  # kJ/(mol V)
 # Snap rounding grid for the polygon overlay [pH units and V]; far below any
 # meaningful difference, far above double-precision noise.
 _GRID = 1e-9
 # Pieces smaller than this fraction of the window area are rounding slivers.
 _SLIVER = 1e-12
-
-
-@dataclass(frozen=True)
-class LigandFamily:
-    """A ligand and the species that carry it.
-
-    Attributes
-    ----------
-    name : str
-        Our name for the family (``S``, ``C``, ``Cl``, ``NH3``, ``CN``).
-    counted : str
-        The element that counts one ligand unit.
-    unit : tuple of (str, int)
-        Composition of one ligand unit, e.g. ``(("C", 1), ("N", 1))`` for cyanide.
-    species : tuple of (str, str) or None
-        ``(formula, phase)`` of the ligand species admitted; None admits every
-        aqueous species of the unit's elements with H and O, and their solids.
-    description : str
-        What the family covers.
-    suppressed : str
-        Reactions left out on purpose (kinetically inert at ordinary
-        temperatures); stated in the map's method text.
-    """
-
-    name: str
-    counted: str
-    unit: tuple
-    species: tuple | None
-    description: str
-    suppressed: str = ""
-
-    @property
-    def elements(self):
-        """Elements the family brings into the metal species selection."""
-        return frozenset(el for el, _ in self.unit)
-
-
-LIGANDS = {
-    "S": LigandFamily(
-        "S",
-        "S",
-        (("S", 1),),
-        None,
-        "sulfur: sulfate, hydrogen sulfate, sulfite, thiosulfate, H2S, HS-, polysulfide and native sulfur "
-        "(every aqueous S-H-O species in the tables, and S(s); no gases)",
-    ),
-    "C": LigandFamily(
-        "C",
-        "C",
-        (("C", 1),),
-        (("CO2", "aq"), ("HCO3^-", "aq"), ("CO3^2-", "aq")),
-        "carbonate: CO2(aq), HCO3-, CO3^2-",
-        "reduction of carbonate to methane, formate or graphite is left out as kinetically inert",
-    ),
-    "Cl": LigandFamily(
-        "Cl",
-        "Cl",
-        (("Cl", 1),),
-        None,
-        "chlorine: chloride and the aqueous oxychlorine species (Cl2(aq), HClO, ClO-, chlorite, chlorate, "
-        "perchlorate; no gases)",
-    ),
-    "NH3": LigandFamily(
-        "NH3",
-        "N",
-        (("N", 1),),
-        (("NH4^+", "aq"), ("NH3", "aq")),
-        "ammonia: NH4+, NH3(aq)",
-        "oxidation of ammonia to N2, nitrite or nitrate is left out as kinetically inert",
-    ),
-    "CN": LigandFamily(
-        "CN",
-        "C",
-        (("C", 1), ("N", 1)),
-        (("HCN", "aq"), ("CN^-", "aq")),
-        "cyanide: HCN(aq), CN-",
-        "oxidation of cyanide to cyanate is left out as kinetically slow",
-    ),
-}
-LIGAND_ALIASES = {"CO3": "C", "N": "NH3"}
-
-
-def resolve_ligand(name):
-    """Return the ligand family for a name or alias.
-
-    Parameters
-    ----------
-    name : str
-        ``S``, ``C`` (alias ``CO3``), ``Cl``, ``NH3`` (alias ``N``) or ``CN``.
-
-    Returns
-    -------
-    LigandFamily
-
-    Raises
-    ------
-    OptionError
-        For an unknown name; the message lists the valid ones.
-
-    Examples
-    --------
-    >>> resolve_ligand("CO3").name
-    'C'
-    """
-    key = str(name).strip()
-    key = LIGAND_ALIASES.get(key, key)
-    if key not in LIGANDS:
-        valid = ", ".join(list(LIGANDS) + [f"{a} (= {b})" for a, b in LIGAND_ALIASES.items()])
-        raise OptionError(f"unknown ligand {name!r}; valid ligands: {valid}")
-    return LIGANDS[key]
-
-
-def _parse_ligands(ligands):
-    if not ligands:
-        return []
-    items = ligands.items() if isinstance(ligands, dict) else ligands
-    out = []
-    seen = {}
-    for item in items:
-        try:
-            name, value = item
-        except (TypeError, ValueError):
-            raise OptionError(
-                f"ligands must be NAME -> activity pairs such as {{'S': 1e-3}}, got {item!r}"
-            ) from None
-        fam = resolve_ligand(name)
-        try:
-            a = float(value)
-        except (TypeError, ValueError):
-            raise ConditionsError(
-                f"ligand {name!r}: total activity must be a number > 0, got {value!r}"
-            ) from None
-        if not (math.isfinite(a) and a > 0):
-            raise ConditionsError(
-                f"ligand {name!r}: total activity must be a number > 0, got {value!r}"
-            )
-        if fam.name in seen:
-            raise OptionError(f"ligand {fam.name} given twice (as {seen[fam.name]!r} and {name!r})")
-        seen[fam.name] = name
-        out.append((fam, a))
-    return out
-
-
-def _parse_ratio(elements, ratio):
-    if ratio is None:
-        if len(elements) > 1:
-            raise OptionError(
-                f"several metals ({' '.join(elements)}) need a ratio of their amounts, "
-                f"e.g. ratio=({', '.join('1' for _ in elements)}) or --ratio {':'.join('1' for _ in elements)}"
-            )
-        return None
-    if isinstance(ratio, str):
-        ratio = ratio.replace(",", ":").split(":")
-    try:
-        vals = tuple(float(v) for v in ratio)
-    except (TypeError, ValueError):
-        raise OptionError(f"ratio must be amounts like 70:19:11, got {ratio!r}") from None
-    if len(vals) != len(elements):
-        raise OptionError(
-            f"ratio has {len(vals)} amount(s) but {len(elements)} element(s) are given "
-            f"({' '.join(elements)}); give one amount per element, in the same order"
-        )
-    if not all(math.isfinite(v) and v > 0 for v in vals):
-        raise ConditionsError(f"ratio amounts must be finite numbers > 0, got {ratio!r}")
-    return vals
 
 
 def _unit_matrix(families):
@@ -375,7 +210,7 @@ def _select(table, metals, lig_elements, metastable, exclude, only, warn, system
     out = []
     for sp in chosen:
         principal = next(m for m in metals if m in sp.composition)
-        state = _state_of(sp, principal)
+        state = state_of(sp, principal)
         if sp.key in excl:
             continue
         if keep is not None and sp.key not in keep and state != "immunity":
@@ -762,26 +597,19 @@ def _combined_state(states):
 
 
 # ------------------------------------------------------------------ ligand map
-def _ligand_map(fam, activity, ctx, g_atom, table, frame, base_conditions, water_she, water_sp):
-    off0, off1 = frame
+def _ligand_map(fam, activity, ctx, g_atom, table, conditions, water_she, water_sp):
+    off0, off1 = conditions.reference_offset_v, conditions.reference_slope_v_per_ph
     rows = _ligand_energies(table, fam, activity, ctx, g_atom)
     entries = [
         Entry(
             names=(species_id(se.species),),
             plane=to_frame(se.plane, off0, off1),
-            state=_state_of(se.species, fam.counted),
+            state=state_of(se.species, fam.counted),
             label=species_label(se.species),
         )
         for se in rows
     ]
-    cond = Conditions(
-        **{
-            **base_conditions,
-            "elements": (fam.counted,),
-            "activity": float(activity),
-            "molality": None,
-        }
-    )
+    cond = replace(conditions, elements=(fam.counted,), activity=float(activity), molality=None)
     sources = {
         se.species.source: table.sources.get(se.species.source, se.species.source)
         for se in [*rows, water_sp]
@@ -855,80 +683,51 @@ def compute_ligand_map(
     >>> m.probe(10.0, -0.6).species
     'HS^-'
     """
-    from pourbaix.tables.species import load_species
-
-    ((fam, a),) = _parse_ligands({ligand: activity})
-    ph_range = _check_range("pH range", ph_range)
-    potential_range_v = _check_range("potential range", potential_range_v, " V")
-    if table is None:
-        table = load_species(dataset, tuple(data_files))
-    warn = []
-    ctx, _, _, _ = _conditions_context(
-        table, (), temperature_c, pressure_bar, water_activity, None, None, "davies", warn
-    )
-    ref_name, off0, off1 = _reference_frame(reference, ctx.temperature_c, warn)
-    g_atom = {el: _g_per_atom(table, el, ctx.temperature_c) for el in fam.elements}
-    water_she = energies.water_lines(ctx)
-    water_sp = energies.SpeciesEnergy(
-        table.get("H2O", "l"),
-        ctx.g_water_kj,
-        "IAPWS-95",
-        300.0,
-        ctx.water_activity,
-        1.0,
-        (0.0, 0.0, 0.0),
-    )
-    base = dict(
-        elements=(fam.counted,),
-        temperature_c=ctx.temperature_c,
-        pressure_bar=ctx.pressure_bar,
-        water_activity=ctx.water_activity,
-        ligands={fam.name: a},
+    fam = resolve_ligand(ligand)
+    conditions = make_conditions(
+        fam.counted,
+        temperature_c=temperature_c,
+        pressure_bar=pressure_bar,
+        water_activity=water_activity,
+        ligands={ligand: activity},
         ph_range=ph_range,
         potential_range_v=potential_range_v,
-        reference=ref_name,
-        reference_offset_v=off0,
-        reference_slope_v_per_ph=off1,
-        dataset=table.dataset,
-        data_files=tuple(str(p) for p in data_files),
+        reference=reference,
+        dataset=dataset,
+        data_files=data_files,
     )
-    lm, rows = _ligand_map(fam, a, ctx, g_atom, table, (off0, off1), base, water_she, water_sp)
-    lm.warnings[:0] = warn
-    _route_warnings(rows, ctx.temperature_c, lm.warnings)
+    a = conditions.ligands[fam.name]
+    if table is None:
+        from pourbaix.tables.species import load_species
+
+        table = load_species(conditions.dataset, conditions.data_files)
+    conditions = replace(conditions, dataset=table.dataset)
+    ctx = energies.context_for(table, conditions, elements=())
+    g_atom = {el: _g_per_atom(table, el, ctx.temperature_c) for el in fam.elements}
+    water_she = energies.water_lines(ctx)
+    water_sp = energies.water_energy(table, ctx)
+    lm, rows = _ligand_map(fam, a, ctx, g_atom, table, conditions, water_she, water_sp)
+    lm.warnings[:0] = list(conditions.notes)
+    route_warnings(rows, ctx.temperature_c, lm.warnings)
     return lm
 
 
 # ------------------------------------------------------------------ the system map
 def compute_system_map(
-    elements,
+    conditions,
     *,
-    activity=None,
-    molality=None,
-    temperature_c=25.0,
-    pressure_bar=None,
-    ionic_strength=None,
-    background=None,
-    activity_model="davies",
-    water_activity=1.0,
-    ligands=None,
-    ratio=None,
-    ph_range=(-2.0, 16.0),
-    potential_range_v=(-2.0, 2.0),
-    reference="SHE",
-    dataset="default",
-    data_files=(),
     exclude=(),
     only=None,
     metastable="exclude",
     table=None,
     warn=None,
     ratio_method="walk",
-    **_unused,
+    **condition_keywords,
 ):
     """Map of a metal with ligands, or of several metals at a fixed ratio (or both).
 
-    Called by :func:`pourbaix.maps.domain_map.compute_map` when ligands, a ratio or
-    several elements are given; takes the same arguments.
+    Called by :func:`pourbaix.maps.compute.compute_map` when ligands, a ratio or
+    several elements are given.
 
     Parameters
     ----------
@@ -1009,13 +808,16 @@ def compute_system_map(
     >>> m.probe(7.0, -1.5).species
     'Fe + Cr'
     """
-    from pourbaix.tables.species import load_species
-
-    elements, activity, molality, ph_range, potential_range_v = _check_basics(
-        elements, activity, molality, ph_range, potential_range_v
-    )
-    families = _parse_ligands(ligands)
-    ratio_vals = _parse_ratio(elements, ratio)
+    if not isinstance(conditions, Conditions):
+        conditions = make_conditions(conditions, **condition_keywords)
+    elif condition_keywords:
+        raise OptionError("give either checked conditions or condition keywords, not both")
+    elements = conditions.elements
+    activity, molality = conditions.activity, conditions.molality
+    families = [(LIGANDS[name], a) for name, a in conditions.ligands.items()]
+    ratio_vals = conditions.ratio
+    if ratio_vals is None and len(elements) > 1:
+        raise OptionError(f"several metals ({' '.join(elements)}) need a ratio of their amounts")
     lig_elements, U = _unit_matrix(families)
     clash = set(lig_elements) & set(elements)
     if clash:
@@ -1023,23 +825,17 @@ def compute_system_map(
             f"{', '.join(sorted(clash))} is given both as a metal and inside a ligand"
         )
     if table is None:
-        table = load_species(dataset, tuple(data_files))
+        from pourbaix.tables.species import load_species
+
+        table = load_species(conditions.dataset, conditions.data_files)
+    if table.dataset != conditions.dataset:
+        conditions = replace(conditions, dataset=table.dataset)  # the tables given win
     warn = list(table.overrides) if warn is None else list(warn)
+    warn += [n for n in conditions.notes if n not in warn]
     for el in elements:
         energies.reference_species(table, el)  # raises if the element has no data
-
-    ctx, gamma_of, ionic, model = _conditions_context(
-        table,
-        elements,
-        temperature_c,
-        pressure_bar,
-        water_activity,
-        ionic_strength,
-        background,
-        activity_model,
-        warn,
-    )
-    ref_name, off0, off1 = _reference_frame(reference, ctx.temperature_c, warn)
+    ctx = energies.context_for(table, conditions)
+    off0, off1 = conditions.reference_offset_v, conditions.reference_slope_v_per_ph
     t = ctx.temperature_c
     g_atom = {el: _g_per_atom(table, el, t) for el in (*elements, *lig_elements)}
     system = _system_name(elements, families)
@@ -1058,7 +854,7 @@ def compute_system_map(
                 continue
         else:
             nu = np.zeros(0)
-        act, gam = dissolved_activity(sp, activity, molality, gamma_of)
+        act, gam = dissolved_activity(sp, conditions)
         others = tuple(el for el in (*elements, *lig_elements) if el != principal)
         se = energies.species_energy(sp, principal, ctx, act, gam, ligand_elements=others)
         plane = _formation_plane(se, principal, ctx, g_atom)
@@ -1084,13 +880,11 @@ def compute_system_map(
         raise OptionError(f"ratio_method must be walk or enumerate, got {ratio_method!r}")
     walked = ratio_vals is not None and not families and ratio_method == "walk"
     if walked:
-        # multi-parametric LP: only the combinations optimal somewhere (DESIGN §2.11)
+        # multi-parametric LP: only the combinations optimal somewhere (Gal & Nedoma 1972)
         from pourbaix.solve import parametric_lp
 
         costs = np.array([to_frame(tuple(p), off0, off1) for p in phis])
-        combos = parametric_lp.optimal_combinations(
-            costs, counts, r, (*ph_range, *potential_range_v)
-        )
+        combos = parametric_lp.optimal_combinations(costs, counts, r, conditions.window)
     else:
         combos = ratio_combinations(counts, r)
     if not combos:
@@ -1108,7 +902,7 @@ def compute_system_map(
     ids = [species_id(se.species) for se in metal_rows]
     labels = [species_label(se.species) for se in metal_rows]
     states = [
-        {m: _state_of(se.species, m) for m in elements if m in se.species.composition}
+        {m: state_of(se.species, m) for m in elements if m in se.species.composition}
         for se in metal_rows
     ]
     units, base, nu_units = [], [], []
@@ -1135,35 +929,7 @@ def compute_system_map(
     nu_units = np.array(nu_units).reshape(len(units), len(families))
 
     water_she = energies.water_lines(ctx)
-    water_sp = energies.SpeciesEnergy(
-        table.get("H2O", "l"),
-        ctx.g_water_kj,
-        "IAPWS-95",
-        300.0,
-        ctx.water_activity,
-        1.0,
-        (0.0, 0.0, 0.0),
-    )
-    base_cond = dict(
-        elements=elements,
-        temperature_c=t,
-        pressure_bar=ctx.pressure_bar,
-        activity=None if activity is None else float(activity),
-        molality=None if molality is None else float(molality),
-        ionic_strength=ionic,
-        activity_model=model,
-        water_activity=ctx.water_activity,
-        ligands={f.name: a for f, a in families},
-        ratio=ratio_vals,
-        ph_range=ph_range,
-        potential_range_v=potential_range_v,
-        reference=ref_name,
-        reference_offset_v=off0,
-        reference_slope_v_per_ph=off1,
-        dataset=table.dataset,
-        data_files=tuple(str(p) for p in data_files),
-    )
-    conditions = Conditions(**base_cond)
+    water_sp = energies.water_energy(table, ctx)
     method = [
         f"exact lower envelope of transformed-energy planes (half-space intersection) for the {system} system"
     ]
@@ -1188,9 +954,7 @@ def compute_system_map(
     all_rows = list(metal_rows)
     ligand_maps, ligand_planes, ligand_names = {}, [], []
     for fam, a in families:
-        lm, rows = _ligand_map(
-            fam, a, ctx, g_atom, table, (off0, off1), base_cond, water_she, water_sp
-        )
+        lm, rows = _ligand_map(fam, a, ctx, g_atom, table, conditions, water_she, water_sp)
         ligand_maps[fam.name] = lm
         ligand_planes.append(np.array([e.plane for e in lm.entries]))
         ligand_names.append([e.names[0] for e in lm.entries])
@@ -1206,7 +970,7 @@ def compute_system_map(
             "the ligand far exceeds the metal"
         )
         method += [f.suppressed for f, _ in families if f.suppressed]
-    _route_warnings(all_rows, t, warn)
+    route_warnings(all_rows, t, warn)
     sources = {}
     for se in [*all_rows, water_sp]:
         sources[se.species.source] = table.sources.get(se.species.source, se.species.source)

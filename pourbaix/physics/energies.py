@@ -25,12 +25,22 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from pourbaix.constants import F_KJ, T_REF_C
 from pourbaix.errors import ConditionsError
 from pourbaix.physics import thermo
 
-__all__ = ["SpeciesEnergy", "EnergyContext", "make_context", "species_energy", "water_lines"]
+__all__ = [
+    "SpeciesEnergy",
+    "EnergyContext",
+    "make_context",
+    "context_for",
+    "reference_species",
+    "species_energy",
+    "water_energy",
+    "water_lines",
+]
 
-_FARADAY_KJ = thermo.F / 1000.0  # kJ/(mol V)
+_FARADAY_KJ = F_KJ  # kJ/(mol V)
 
 
 @dataclass(frozen=True)
@@ -135,15 +145,50 @@ def make_context(table, temperature_c=25.0, pressure_bar=None, water_activity=1.
         raise ConditionsError(f"water activity must be in (0, 1], got {water_activity}")
     t = float(temperature_c)
     props = thermo.water_properties(t, pressure_bar)
+    return _context(
+        table, t, props, float(thermo.nernst_factor(t)), float(water_activity), elements
+    )
+
+
+def context_for(table, conditions, elements=None):
+    """Build the constants for the planes from checked conditions (nothing is re-checked).
+
+    Parameters
+    ----------
+    table : SpeciesTable
+        Species tables (must hold H2O(l), H2(g) and O2(g)).
+    conditions : pourbaix.conditions.Conditions
+        Conditions built by :func:`pourbaix.conditions.make_conditions`.
+    elements : iterable of str, optional
+        Elements whose reference species set their zero; default the
+        conditions' elements.
+
+    Returns
+    -------
+    EnergyContext
+    """
+    props = conditions.water
+    if props is None:  # conditions built by hand (tests, plots of invented systems)
+        props = thermo.water_properties(conditions.temperature_c, conditions.pressure_bar)
+    return _context(
+        table,
+        float(conditions.temperature_c),
+        props,
+        float(conditions.nernst_v),
+        float(conditions.water_activity),
+        conditions.elements if elements is None else elements,
+    )
+
+
+def _context(table, t, props, nernst_v, water_activity, elements):
     water = table.get("H2O", "l")
     h2 = table.get("H2", "g")
     o2 = table.get("O2", "g")
-    if t == 25.0:
+    if t == T_REF_C:
         g_w = water.dgf_kj_mol
     else:
-        # the table's 25 °C value carried to T by IAPWS-95 (keeps one source for water)
-        shift = thermo.water_gibbs(t, props.pressure_bar) - thermo.water_gibbs(25.0, 1.0)
-        g_w = water.dgf_kj_mol + float(shift)
+        # the table's 25 °C value carried to (T, P) by IAPWS-95 (keeps one source for water)
+        g_w = water.dgf_kj_mol + float(props.gibbs_kj_mol - thermo.water_gibbs(T_REF_C, 1.0))
     g_h2 = _gibbs(h2, t)[0]
     g_o2 = _gibbs(o2, t)[0]
     element_g = {}
@@ -152,12 +197,38 @@ def make_context(table, temperature_c=25.0, pressure_bar=None, water_activity=1.
     return EnergyContext(
         temperature_c=t,
         pressure_bar=float(props.pressure_bar),
-        nernst_v=float(thermo.nernst_factor(t)),
+        nernst_v=nernst_v,
         g_water_kj=float(g_w),
         g_electron_kj=0.5 * g_h2,
         g_oxygen_kj=float(g_o2),
-        water_activity=float(water_activity),
+        water_activity=water_activity,
         element_g_kj=element_g,
+    )
+
+
+def water_energy(table, ctx):
+    """The row of liquid water with its Gibbs energy at the context's (T, P).
+
+    Parameters
+    ----------
+    table : SpeciesTable
+        Species tables.
+    ctx : EnergyContext
+        Conditions.
+
+    Returns
+    -------
+    SpeciesEnergy
+        Water, route "IAPWS-95", activity as set (no plane: it is the solvent).
+    """
+    return SpeciesEnergy(
+        table.get("H2O", "l"),
+        ctx.g_water_kj,
+        "IAPWS-95",
+        300.0,
+        ctx.water_activity,
+        1.0,
+        (0.0, 0.0, 0.0),
     )
 
 

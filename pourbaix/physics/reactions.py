@@ -7,6 +7,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 from fractions import Fraction
 
+from pourbaix.constants import T_REF_K, F, R
 from pourbaix.errors import DataError
 from pourbaix.tables.species import Species, SpeciesTable, load_species
 
@@ -21,9 +22,8 @@ __all__ = [
     "log_k",
 ]
 
-FARADAY = 96485.33212  # C/mol, CODATA 2018 (N_A e, exact in the 2019 SI; 10 digits as tabulated)
-GAS_CONSTANT = 8.314462618  # J/(mol K), CODATA 2018 (exact since the 2019 SI: N_A k)
-T_REF_K = 298.15  # K, standard reference temperature
+FARADAY = F  # C/mol, CODATA 2018 (see pourbaix.constants)
+GAS_CONSTANT = R  # J/(mol K), CODATA 2018 (see pourbaix.constants)
 
 
 def _fmt(c: float) -> str:

@@ -16,6 +16,7 @@ from typing import NamedTuple
 
 import numpy as np
 
+from pourbaix.constants import E_CHARGE, EPS0, K_B, LN10, N_A
 from pourbaix.errors import ConditionsError, FormulaError, OptionError
 from pourbaix.physics.thermo import RangeWarning, check_temperature, water_properties
 
@@ -37,12 +38,12 @@ __all__ = [
     "mean_activity_coefficient",
 ]
 
-# CODATA 2018 (exact SI values except ε0).
-_E = 1.602176634e-19  # elementary charge [C]
-_NA = 6.02214076e23  # Avogadro constant [1/mol]
-_KB = 1.380649e-23  # Boltzmann constant [J/K]
-_EPS0 = 8.8541878128e-12  # vacuum permittivity [F/m]
-_LN10 = math.log(10.0)
+# CODATA 2018 values, from one module with their sources.
+_E = E_CHARGE  # elementary charge [C]
+_NA = N_A  # Avogadro constant [1/mol]
+_KB = K_B  # Boltzmann constant [J/K]
+_EPS0 = EPS0  # vacuum permittivity [F/m]
+_LN10 = LN10
 
 # --------------------------------------------------------------------------- salts
 

@@ -20,6 +20,7 @@ from typing import NamedTuple
 
 import numpy as np
 
+from pourbaix.constants import CAL, LN10, P_REF_BAR, T_REF_C, T_REF_K, F, R
 from pourbaix.errors import ConditionsError, OptionError
 
 __all__ = [
@@ -48,12 +49,8 @@ __all__ = [
     "pkw_r11_07",
 ]
 
-# CODATA 2018 (exact SI definitions for R = N_A k and F = N_A e).
-R = 8.314462618  # molar gas constant [J/(mol K)]
-F = 96485.33212  # Faraday constant [C/mol]
-T_REF = 298.15  # reference temperature [K]
-T_REF_C = 25.0  # reference temperature [°C]
-P_REF_BAR = 1.0  # standard-state pressure [bar]
+# R, F (CODATA 2018) and the reference state, with their sources, from one module.
+T_REF = T_REF_K  # reference temperature [K]
 
 T_MIN_C = 0.0  # lowest temperature the tool accepts [°C]
 T_MAX_C = 300.0  # highest temperature the tool accepts [°C]
@@ -62,8 +59,8 @@ T_MAX_C = 300.0  # highest temperature the tool accepts [°C]
 # species data stop making sense for plant and field waters (judgement).
 P_MAX_BAR = 1000.0
 
-_LN10 = math.log(10.0)
-_CAL = 4.184  # thermochemical calorie [J]
+_LN10 = LN10
+_CAL = CAL  # thermochemical calorie [J]
 _M_WATER_G = 18.015268  # molar mass of water used by IAPWS-95 [g/mol]
 
 # NBS tables (Wagman et al. 1982) / CODATA Key Values (Cox et al. 1989) for H2O(l).

@@ -412,9 +412,7 @@ def _conditions_rows(dmap):
 
 
 def _nernst(dmap):
-    from pourbaix.physics.thermo import nernst_factor
-
-    return float(nernst_factor(dmap.conditions.temperature_c))
+    return float(dmap.conditions.nernst_v)
 
 
 def _domain_rows(dmap, names):
