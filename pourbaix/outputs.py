@@ -2,31 +2,177 @@
 
 from __future__ import annotations
 
+import contextlib
+import contextvars
 import os
 import tempfile
+import uuid
 from pathlib import Path
 
 from pourbaix.errors import ExportError
 
-__all__ = ["atomic_write_text", "atomic_write_with", "check_writable"]
+__all__ = [
+    "atomic_write_text",
+    "atomic_write_with",
+    "all_or_nothing",
+    "check_writable",
+    "check_outputs",
+]
+
+# Files written inside all_or_nothing(): (finished temporary file, destination), moved
+# into place together when the block ends without an error.
+_STAGED = contextvars.ContextVar("pourbaix_staged_outputs", default=None)
+_TEMP_PREFIX = ".pourbaix-"
+
+
+def _name_max(folder):
+    try:
+        return os.pathconf(folder, "PC_NAME_MAX")
+    except (OSError, ValueError, AttributeError):
+        return 255  # the usual limit (POSIX file systems, NTFS)
+
+
+def _shown(p):
+    text = str(p)
+    return text if len(text) <= 120 else f"{text[:60]}...{text[-40:]} ({len(text)} characters)"
 
 
 def check_writable(path):
-    """Raise ExportError if ``path`` cannot be created (missing folder, not writable).
+    """Raise ExportError if ``path`` cannot be created (missing folder, not writable, bad name).
 
     Parameters
     ----------
     path : str or Path
         Intended output file.
+
+    Raises
+    ------
+    ExportError
+        The folder is missing or not writable, the path is a folder, the name
+        is empty, holds a NUL character or is longer than the file system
+        allows; the message names the path (shortened when very long).
     """
-    p = Path(path)
-    folder = p.parent if str(p.parent) else Path(".")
-    if not folder.is_dir():
-        raise ExportError(f"cannot write {p}: folder {folder} does not exist")
-    if not os.access(folder, os.W_OK):
-        raise ExportError(f"cannot write {p}: folder {folder} is not writable")
-    if p.is_dir():
-        raise ExportError(f"cannot write {p}: it is a folder")
+    try:
+        if "\x00" in str(path):
+            raise ExportError(
+                f"cannot write {_shown(repr(str(path)))}: the name holds a NUL (null) character"
+            )
+        p = Path(path)
+        if not p.name or str(path).endswith(("/", os.sep)):
+            raise ExportError(f"cannot write {_shown(path)}: no file name")
+        folder = p.parent if str(p.parent) else Path(".")
+        if not folder.is_dir():
+            raise ExportError(f"cannot write {_shown(p)}: folder {_shown(folder)} does not exist")
+        if not os.access(folder, os.W_OK):
+            raise ExportError(f"cannot write {_shown(p)}: folder {_shown(folder)} is not writable")
+        limit = _name_max(folder)
+        if len(os.fsencode(p.name)) > limit:
+            raise ExportError(
+                f"cannot write {_shown(p)}: the file name is {len(os.fsencode(p.name))} bytes long, "
+                f"more than the {limit} the file system allows"
+            )
+        if p.is_dir():
+            raise ExportError(f"cannot write {_shown(p)}: it is a folder")
+    except ExportError:
+        raise
+    except (OSError, ValueError, UnicodeError) as exc:  # NUL bytes, undecodable names, ...
+        detail = getattr(exc, "strerror", None) or str(exc)
+        raise ExportError(f"cannot write {_shown(path)}: {detail}") from None
+
+
+def check_outputs(paths):
+    """Check every output path of a command before any work is done.
+
+    Parameters
+    ----------
+    paths : iterable of str or Path
+        The files the command will write.
+
+    Raises
+    ------
+    ExportError
+        For the first path that cannot be written.
+    """
+    for p in paths:
+        check_writable(p)
+
+
+@contextlib.contextmanager
+def all_or_nothing():
+    """Write every file of a block, or none: files appear only when the whole block succeeded.
+
+    Inside the block, :func:`atomic_write_with` and :func:`atomic_write_text`
+    finish each file under a temporary name beside its destination; when the
+    block ends without an error all of them are moved into place, and when it
+    raises they are removed, so an existing file is never replaced by a
+    failing command. Nested blocks join the outermost one.
+
+    Raises
+    ------
+    ExportError
+        If a finished file cannot be moved into place.
+    """
+    if _STAGED.get() is not None:
+        yield
+        return
+    staged = []
+    token = _STAGED.set(staged)
+    try:
+        yield
+    except BaseException:
+        _STAGED.reset(token)
+        _discard(staged)
+        raise
+    _STAGED.reset(token)
+    _commit(staged)
+
+
+def _commit(staged):
+    """Move finished files into place; if one move fails, put back what was there before."""
+    backups = {}
+    done = []
+    try:
+        for tmp, target in staged:
+            if target not in backups:
+                backups[target] = _backup(target)
+            os.replace(tmp, target)
+            done.append(target)
+    except OSError as exc:
+        _discard([(tmp, target) for tmp, target in staged if target not in done])
+        for target in reversed(done):
+            try:
+                if backups.get(target):
+                    os.replace(backups.pop(target), target)
+                else:
+                    os.unlink(target)
+            except OSError:
+                pass
+        _discard([(b, None) for b in backups.values() if b])
+        raise ExportError(
+            f"cannot write {_shown(exc.filename or target)}: {exc.strerror or exc}"
+        ) from None
+    _discard([(b, None) for b in backups.values() if b])
+
+
+def _backup(target):
+    """A hard link to an existing file (so it can be put back), or None."""
+    if not os.path.lexists(target):
+        return None
+    folder = os.path.dirname(os.fspath(target)) or "."
+    name = os.path.join(folder, f"{_TEMP_PREFIX}{uuid.uuid4().hex[:12]}.bak")
+    try:
+        os.link(target, name)
+    except OSError:
+        return None  # no hard links here: the old file cannot be put back, but is replaced whole
+    return name
+
+
+def _discard(staged):
+    for tmp, _ in staged:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
 
 
 def atomic_write_with(path, writer):
@@ -38,19 +184,24 @@ def atomic_write_with(path, writer):
         Destination.
     writer : callable
         Writes the complete file to the temporary path it is given (same folder
-        and suffix as ``path``, so format detection by extension still works).
+        and, for short suffixes, the same suffix as ``path``).
 
     Raises
     ------
     ExportError
         If the folder is missing or unwritable, or the writer fails; no partial
-        file is left behind.
+        file is left behind. Inside :func:`all_or_nothing` the file is moved
+        into place only when the whole block succeeds.
     """
     p = Path(path)
     check_writable(p)
-    fd, tmp = tempfile.mkstemp(
-        prefix=f".{p.stem}.", suffix=p.suffix, dir=p.parent if str(p.parent) else "."
-    )
+    suffix = p.suffix if len(p.suffix) <= 16 else ""
+    try:
+        fd, tmp = tempfile.mkstemp(
+            prefix=_TEMP_PREFIX, suffix=suffix, dir=p.parent if str(p.parent) else "."
+        )
+    except OSError as exc:
+        raise ExportError(f"cannot write {_shown(p)}: {exc.strerror or exc}") from None
     os.close(fd)
     try:
         writer(tmp)
@@ -58,14 +209,18 @@ def atomic_write_with(path, writer):
         umask = os.umask(0)
         os.umask(umask)
         os.chmod(tmp, 0o666 & ~umask)
-        os.replace(tmp, p)
+        staged = _STAGED.get()
+        if staged is None:
+            os.replace(tmp, p)
+        else:
+            staged.append((tmp, p))
     except BaseException as exc:
         try:
             os.unlink(tmp)
         except OSError:
             pass
-        if isinstance(exc, OSError):
-            raise ExportError(f"cannot write {p}: {exc.strerror or exc}") from exc
+        if isinstance(exc, OSError) and not isinstance(exc, ExportError):
+            raise ExportError(f"cannot write {_shown(p)}: {exc.strerror or exc}") from exc
         raise
 
 

@@ -237,6 +237,10 @@ def cmd_map(a):
 
     for o in outs + ([Path(a.report)] if a.report else []):
         check_writable(o)
+    if a.second_axis:
+        from pourbaix.physics.electrodes import get_reference
+
+        get_reference(a.second_axis)  # an unknown name fails before any work
     dmap = _compute(a)
     _print_warnings(dmap)
     _note_missing_solid(dmap)
@@ -258,12 +262,12 @@ def cmd_map(a):
             add_solubility_lines(ax, dmap, a.solubility_lines or DEFAULT_LEVELS)
         for o in figure_outs:
             draw.save_figure(ax, o)
-    for o in outs:
-        print(f"wrote {o}")
     if a.report:
         from pourbaix.report.document import write_report_from_args
 
         write_report_from_args(a, dmap)
+    for o in outs:
+        print(f"wrote {o}")
     print(f"{len(dmap.domains)} domains: " + ", ".join(" + ".join(d.species) for d in dmap.domains))
     if dmap.never_stable:
         print("never stable in the window: " + ", ".join(dmap.never_stable))
@@ -547,17 +551,67 @@ def main(argv=None):
     argv : list of str, optional
         Arguments (default ``sys.argv[1:]``).
     """
+    from pourbaix.outputs import all_or_nothing, check_outputs
+
     parser = build_parser()
     # Negative numbers as option values (e.g. --potential -1 1) are ordinary here.
     a = parser.parse_args(argv)
     try:
-        return a.func(a) or 0
+        # every output path is checked before any work, and the files appear together
+        # only when the whole command succeeded (an existing file is never replaced otherwise)
+        for option, path in output_paths(a):
+            try:
+                check_outputs([path])
+            except PourbaixError as exc:
+                raise OptionError(f"{option}: {exc}") from None
+        with all_or_nothing():
+            return a.func(a) or 0
     except PourbaixError as exc:
-        msg = str(exc)
-        print(f"pourbaix: error: {msg}", file=sys.stderr)
+        print(f"pourbaix: error: {_one_message(exc)}", file=sys.stderr)
         return 2
     except BrokenPipeError:  # pragma: no cover
         return 0
+    except OSError as exc:  # anything the system refused that no check above foresaw
+        where = f" ({_one_message(exc.filename)})" if getattr(exc, "filename", None) else ""
+        print(f"pourbaix: error: {exc.strerror or exc}{where}", file=sys.stderr)
+        return 2
+    except MemoryError:
+        print("pourbaix: error: out of memory; make the problem smaller", file=sys.stderr)
+        return 2
+
+
+def _one_message(exc, limit=4000):
+    """The error text, shortened when huge (a message never floods the terminal)."""
+    text = str(exc)
+    if len(text) <= limit:
+        return text
+    return f"{text[: limit - 200]} ... ({len(text) - limit + 200} more characters)"
+
+
+def output_paths(a):
+    """Every file a parsed command will write (``--out``, ``--report`` and a Markdown report's figures).
+
+    Parameters
+    ----------
+    a : argparse.Namespace
+        Parsed arguments.
+
+    Returns
+    -------
+    list of (str, Path)
+        The option and the path.
+    """
+    outs = getattr(a, "out", None) or []
+    if isinstance(outs, str | Path):
+        outs = [outs]
+    paths = [("--out", Path(o)) for o in outs]
+    report = getattr(a, "report", None)
+    if report:
+        p = Path(report)
+        paths.append(("--report", p))
+        if p.suffix.lower() == ".md":
+            paths.append(("--report", p.with_name(f"{p.stem}-figure-1.svg")))
+    return paths
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -1448,7 +1448,12 @@ def write_report(
     ...     "<svg" in path.read_text(encoding="utf-8")
     True
     """
-    from pourbaix.outputs import atomic_write_text, atomic_write_with, check_writable
+    from pourbaix.outputs import (
+        all_or_nothing,
+        atomic_write_text,
+        atomic_write_with,
+        check_writable,
+    )
 
     p = Path(path)
     kind = _kind(p)
@@ -1462,7 +1467,6 @@ def write_report(
         reading=reading,
         second_reference=second_reference,
     )
-    written = []
     try:
         if kind == "html":
             atomic_write_text(p, _render_html(doc))
@@ -1470,22 +1474,16 @@ def write_report(
         names = [f"{p.stem}-figure-{i + 1}.svg" for i in range(len(doc.figures))]
         for name in names:
             check_writable(p.with_name(name))
-        for (fig, _, _), name in zip(doc.figures, names, strict=True):
-            svg = _svg_text(fig, text_as_text=False)
-            target = p.with_name(name)
-            atomic_write_with(
-                target, lambda tmp, _svg=svg: Path(tmp).write_text(_svg, encoding="utf-8")
-            )
-            written.append(target)
-        atomic_write_text(p, _render_markdown(doc, names))
+        # a Markdown report is complete with its figures, or absent (existing files untouched)
+        with all_or_nothing():
+            for (fig, _, _), name in zip(doc.figures, names, strict=True):
+                svg = _svg_text(fig, text_as_text=False)
+                atomic_write_with(
+                    p.with_name(name),
+                    lambda tmp, _svg=svg: Path(tmp).write_text(_svg, encoding="utf-8"),
+                )
+            atomic_write_text(p, _render_markdown(doc, names))
         return p
-    except BaseException:
-        for w in written:  # a Markdown report is complete with its figures, or absent
-            try:
-                w.unlink()
-            except OSError:
-                pass
-        raise
     finally:
         _close(doc)
 
