@@ -356,7 +356,9 @@ def test_reading_adds_legend_and_caution(maps):
     leg = ax.get_legend()
     assert leg is not None
     names = [t.get_text() for t in leg.get_texts()]
-    assert [n.split()[0] for n in names] == ["immunity", "passivation", "corrosion"]
+    # the three states, then the lines the legend also names (water lines, neutral pH)
+    assert [n.split()[0] for n in names[:3]] == ["immunity", "passivation", "corrosion"]
+    assert [n.split()[0] for n in names[3:]] == ["water", "neutral"]
     text = next(t.get_text() for t in ax.texts if t.get_gid() == "pourbaix-caption")
     assert "whether it protects is a kinetic question" in text
     hatched = [p for p in ax.patches if p.get_hatch()]
@@ -672,3 +674,28 @@ def test_segment_box_crossing_matches_shapely():
         assert got[k] == want, (k, b)
         assert want == any(draw._segment_hits_box(s[0], s[1], b) for s in segs)
     assert not draw._segments_hit_boxes([], boxes).any()
+
+
+def test_states_legend_without_reading_names_only_the_states_shown(maps):
+    # issue 17: no legend for the states unless the reading was asked for
+    ax = draw.draw_map(maps["Cu"])
+    names = [t.get_text() for t in ax.get_legend().get_texts()]
+    shown = {d.state for d in maps["Cu"].domains}
+    assert [n.split()[0] for n in names if n.split()[0] in STATES] == [
+        s for s in STATES if s in shown
+    ]
+    assert not [p for p in ax.patches if p.get_hatch()]  # hatching stays with the reading
+
+
+STATES = ("immunity", "passivation", "corrosion")
+
+
+def test_grey_palette_draws_grey_water_lines(maps):
+    from matplotlib.colors import to_rgb
+
+    ax = draw.draw_map(maps["Fe"], palette="grey")
+    water = [ln for ln in ax.get_lines() if (ln.get_gid() or "").startswith("pourbaix-water")]
+    assert len(water) == 2
+    for ln in water:
+        r, g, b = to_rgb(ln.get_color())
+        assert max(r, g, b) - min(r, g, b) < 0.02, "a water line keeps a hue in the grey palette"

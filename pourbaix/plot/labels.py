@@ -49,6 +49,7 @@ class Placer:
         self.boxes = np.zeros((0, 4))
         self.lines = []  # boundary segments in display units, kept clear by line labels
         self.leaders = []  # leader lines drawn so far, display units
+        self.soft_lines = []  # water and neutral lines: kept clear where there is a choice
 
     def add_lines(self, segments_data):
         """Register boundary segments (data units) that line labels should not cross."""
@@ -56,6 +57,12 @@ class Placer:
             self.lines.append(
                 (tuple(self.ax.transData.transform(a)), tuple(self.ax.transData.transform(b)))
             )
+
+    def lines_hit(self, boxes, clearance_pt=1.0, soft=False):
+        """For each box [px], whether a boundary (or, with ``soft``, a water) line crosses it."""
+        c = clearance_pt * self.px_per_pt
+        grown = np.atleast_2d(boxes) + np.array([-c, -c, c, c])
+        return _segments_hit_boxes(self.soft_lines if soft else self.lines, grown)
 
     def crosses_lines(self, box, clearance_pt=3.0):
         """Whether a box (grown by the clearance) crosses a registered boundary segment."""
@@ -105,8 +112,17 @@ class Placer:
         return ok
 
     def take(self, box):
-        """Mark a box [px] as taken."""
+        """Mark a box [px] as taken; returns its row (for :meth:`release`)."""
         self.boxes = np.vstack([self.boxes, np.asarray(box, dtype=float)[None, :]])
+        return len(self.boxes) - 1
+
+    def release(self, row):
+        """Free a box taken before (its row stays, as NaN, so later rows keep their numbers)."""
+        self.boxes[row] = np.nan
+
+    def retake(self, row, box):
+        """Put a released box back, or move it."""
+        self.boxes[row] = np.asarray(box, dtype=float)
 
     def to_data(self, xy):
         """Convert display coordinates [px] to data coordinates."""
@@ -155,6 +171,12 @@ def _segments_hit_boxes(segments, boxes):
     boxes = np.atleast_2d(np.asarray(boxes, dtype=float))
     if len(segments) == 0:
         return np.zeros(len(boxes), dtype=bool)
+    return _hit_matrix(segments, boxes).any(axis=1)
+
+
+def _hit_matrix(segments, boxes):
+    """Whether segment s crosses box k, as a (K, S) array (Liang-Barsky clipping)."""
+    boxes = np.atleast_2d(np.asarray(boxes, dtype=float))
     s = np.asarray(segments, dtype=float).reshape(-1, 4)
     x0, y0 = s[:, 0], s[:, 1]  # (S,)
     dx, dy = s[:, 2] - x0, s[:, 3] - y0
@@ -168,7 +190,22 @@ def _segments_hit_boxes(segments, boxes):
         r = qk / pk
     t0 = np.max(np.where(pk < 0, r, 0.0), axis=0)
     t1 = np.min(np.where(pk > 0, r, 1.0), axis=0)
-    return np.any(~parallel_out & (t0 <= t1), axis=1)
+    return ~parallel_out & (t0 <= t1)
+
+
+def _cross_matrix(first, second):
+    """Whether segment i of ``first`` properly crosses segment j of ``second``, shape (I, J)."""
+    a = np.asarray(first, dtype=float).reshape(-1, 1, 4)
+    b = np.asarray(second, dtype=float).reshape(1, -1, 4)
+
+    def orient(ux, uy, vx, vy, wx, wy):
+        return (vx - ux) * (wy - uy) - (vy - uy) * (wx - ux)
+
+    d1 = orient(b[..., 0], b[..., 1], b[..., 2], b[..., 3], a[..., 0], a[..., 1])
+    d2 = orient(b[..., 0], b[..., 1], b[..., 2], b[..., 3], a[..., 2], a[..., 3])
+    d3 = orient(a[..., 0], a[..., 1], a[..., 2], a[..., 3], b[..., 0], b[..., 1])
+    d4 = orient(a[..., 0], a[..., 1], a[..., 2], a[..., 3], b[..., 2], b[..., 3])
+    return (d1 * d2 < 0) & (d3 * d4 < 0)
 
 
 def _segments_cross(p, q, a, b):
@@ -193,7 +230,7 @@ def _display_polygon(ax, polygon):
     return Polygon(xy)
 
 
-def _fit_inside(placer, poly_px, w, h, soft_lines=()):
+def _fit_inside(placer, poly_px, w, h, soft_lines=(), hard_lines=()):
     """Centre for a w x h label box inside a display polygon; None if none fits.
 
     Candidates on a grid over the polygon are kept if the box (with the
@@ -201,7 +238,8 @@ def _fit_inside(placer, poly_px, w, h, soft_lines=()):
     around the box wins (distance to the edge measured with x scaled by the
     box's aspect, so a wide label looks for a wide spot), ties going to the
     spot nearest the centroid. Spots whose box a water line crosses are used
-    only when there is no other.
+    only when there is no other; spots a line of ``hard_lines`` (leaders)
+    crosses are never used.
     """
     import shapely
     from shapely import affinity
@@ -219,6 +257,8 @@ def _fit_inside(placer, poly_px, w, h, soft_lines=()):
     boxes = _boxes_at(centres, w, h)
     ok = shapely.contains(shrunk, shapely.box(boxes[:, 0], boxes[:, 1], boxes[:, 2], boxes[:, 3]))
     ok &= placer.clear(boxes)
+    if len(hard_lines):
+        ok &= ~_segments_hit_boxes(hard_lines, boxes)
     if not ok.any():
         return None
     k = np.flatnonzero(ok)
@@ -237,58 +277,80 @@ def _fit_inside(placer, poly_px, w, h, soft_lines=()):
     return tuple(centres[k[int(np.argmax(score))]])
 
 
-def _place_outside(placer, pole_px, w, h, avoid_points, avoid_polys):
-    """Centre for a boxed label outside its domain, with a leader to the pole."""
+def place_callout(placer, pole_px, w, h, avoid_points=(), avoid_polys=()):
+    """Centre [px] for a callout (boxed label or numbered circle) drawn away from its domain.
+
+    The box must be free (inside the frame, clear of every box taken) and is
+    kept, in this order of preference, off the boundary lines, off the leaders
+    already drawn, and with its own leader running through no other box and
+    crossing no other leader; among the spots that keep the most of these, the
+    nearest to the domain's label point wins (water lines and the label points
+    of domains still to be labelled count against a spot). Returns None when
+    no free spot exists.
+    """
     import shapely
 
     ppt = placer.px_per_pt
     radii = np.array([10, 16, 24, 34, 46, 60, 78, 100, 128, 160, 200, 250, 310, 380]) * ppt
     angles = np.deg2rad(np.arange(0, 360, 15) + 7.5)
     rr, aa = np.meshgrid(radii, angles, indexing="ij")
-    rr, aa = rr.ravel(), aa.ravel()
-    cx = pole_px[0] + np.cos(aa) * (rr + w / 2)
-    cy = pole_px[1] + np.sin(aa) * (rr + h / 2)
-    centres = np.column_stack([cx, cy])
+    ring = np.column_stack(
+        [
+            pole_px[0] + np.cos(aa.ravel()) * (rr.ravel() + w / 2),
+            pole_px[1] + np.sin(aa.ravel()) * (rr.ravel() + h / 2),
+        ]
+    )
+    f = placer.frame
+    gx, gy = np.meshgrid(
+        np.linspace(f[0] + w / 2, f[2] - w / 2, 48), np.linspace(f[1] + h / 2, f[3] - h / 2, 36)
+    )
+    centres = np.vstack([ring, np.column_stack([gx.ravel(), gy.ravel()])])
     boxes = _boxes_at(centres, w, h)
     ok = placer.clear(boxes)
     if not ok.any():
-        # the whole axes as a last resort: any free spot, nearest first
-        f = placer.frame
-        gx, gy = np.meshgrid(
-            np.linspace(f[0] + w / 2, f[2] - w / 2, 40), np.linspace(f[1] + h / 2, f[3] - h / 2, 30)
-        )
-        centres = np.column_stack([gx.ravel(), gy.ravel()])
-        boxes = _boxes_at(centres, w, h)
-        rr = np.hypot(centres[:, 0] - pole_px[0], centres[:, 1] - pole_px[1])
-        ok = placer.clear(boxes)
-        if not ok.any():
-            return None
-    score = rr.astype(float).copy()
-    score[~ok] = np.inf
-    idx = np.flatnonzero(ok)
-    # leaders should not run through labels already placed, nor cross other leaders
-    for k in idx:
-        q = _nearest_on_box(pole_px, boxes[k])
-        if any(_segment_hits_box(pole_px, q, tb) for tb in placer.boxes):
-            score[k] += 400 * ppt
-        score[k] += 70 * ppt * sum(_segments_cross(pole_px, q, a, b) for a, b in placer.leaders)
-    # keep off the label points and tiny domains of labels still to be placed
+        return None
+    centres, boxes = centres[ok], boxes[ok]
+    dist = np.hypot(centres[:, 0] - pole_px[0], centres[:, 1] - pole_px[1])
+    on_line = placer.lines_hit(boxes)
+    on_leader = (
+        _segments_hit_boxes(placer.leaders, boxes) if placer.leaders else np.zeros(len(boxes), bool)
+    )
+    score = dist.copy()
+    score += 30 * ppt * placer.lines_hit(boxes, soft=True)
     if len(avoid_points):
         ap = np.asarray(avoid_points)
+        m = 6 * ppt
         inside = (
-            (ap[None, :, 0] >= boxes[:, None, 0] - 6 * ppt)
-            & (ap[None, :, 0] <= boxes[:, None, 2] + 6 * ppt)
-            & (ap[None, :, 1] >= boxes[:, None, 1] - 6 * ppt)
-            & (ap[None, :, 1] <= boxes[:, None, 3] + 6 * ppt)
+            (ap[None, :, 0] >= boxes[:, None, 0] - m)
+            & (ap[None, :, 0] <= boxes[:, None, 2] + m)
+            & (ap[None, :, 1] >= boxes[:, None, 1] - m)
+            & (ap[None, :, 1] <= boxes[:, None, 3] + m)
         )
         score += 120 * ppt * inside.sum(axis=1)
-    if avoid_polys:
-        geoms = shapely.box(boxes[idx, 0], boxes[idx, 1], boxes[idx, 2], boxes[idx, 3])
-        for poly in avoid_polys:
+    for poly in avoid_polys:
+        px0, py0, px1, py1 = poly.bounds
+        near = np.flatnonzero(
+            (boxes[:, 0] < px1) & (boxes[:, 2] > px0) & (boxes[:, 1] < py1) & (boxes[:, 3] > py0)
+        )
+        if len(near):
+            geoms = shapely.box(boxes[near, 0], boxes[near, 1], boxes[near, 2], boxes[near, 3])
             inter = shapely.area(shapely.intersection(geoms, poly))
-            score[idx] += 60 * ppt * (inter / max(w * h, 1.0)) * 10
-    best = int(np.argmin(score))
-    return tuple(centres[best]) if np.isfinite(score[best]) else None
+            score[near] += 600 * ppt * inter / max(w * h, 1.0)
+    # the leader of each spot: from the label point to the nearest point of the box
+    qx = np.clip(pole_px[0], boxes[:, 0], boxes[:, 2])
+    qy = np.clip(pole_px[1], boxes[:, 1], boxes[:, 3])
+    own = np.column_stack(
+        [np.full(len(boxes), pole_px[0]), np.full(len(boxes), pole_px[1]), qx, qy]
+    )
+    bad_leader = np.zeros(len(boxes), dtype=bool)
+    if len(placer.boxes):
+        bad_leader |= _hit_matrix(own, placer.boxes).any(axis=0)
+    if placer.leaders:
+        bad_leader |= _cross_matrix(own, placer.leaders).any(axis=1)
+    # tiers: a spot that breaks fewer rules always beats a nearer one that breaks more
+    tier = 4.0 * on_line + 2.0 * on_leader + 1.0 * bad_leader
+    best = int(np.lexsort((score, tier))[0])
+    return tuple(centres[best])
 
 
 def label_domains(ax, dmap, renderer, colours=None, *, light=False, fixed=(), soft_lines=()):
@@ -354,7 +416,7 @@ def label_pending(ax, dmap, placer, pending, polys_px, poles_px, *, light=False)
         bpad = 0.18 * size * placer.px_per_pt  # the white box drawn around the text
         W, H = w + 2 * bpad, h + 2 * bpad
         others = [poles_px[k] for k in pending[n + 1 :]]
-        c = _place_outside(
+        c = place_callout(
             placer,
             poles_px[i],
             W,
@@ -367,7 +429,7 @@ def label_pending(ax, dmap, placer, pending, polys_px, poles_px, *, light=False)
             w, h, ox, oy = placer.measure(t)
             bpad = 0.18 * 6.5 * placer.px_per_pt
             W, H = w + 2 * bpad, h + 2 * bpad
-            c = _place_outside(placer, poles_px[i], W, H, [], [])
+            c = place_callout(placer, poles_px[i], W, H)
             if c is None:
                 c = tuple(poles_px[i])
         box = _boxes_at(c, W, H)[0]
@@ -459,55 +521,120 @@ def _circle_size(placer, t, size):
     return d, ox, oy
 
 
+def _uncross_leaders(placer, spots, leaders, poles_px, rounds=3):
+    """Swap the circles of two callouts whose leaders cross, where the swap is free and uncrosses them."""
+    keys = list(leaders)
+    for _ in range(rounds):
+        changed = False
+        for n, i in enumerate(keys):
+            for j in keys[n + 1 :]:
+                if not _segments_cross(*leaders[i], *leaders[j]):
+                    continue
+                ci, cj = spots[i][1], spots[j][1]
+                bi, bj = (
+                    _boxes_at(cj, spots[i][2], spots[i][2])[0],
+                    _boxes_at(ci, spots[j][2], spots[j][2])[0],
+                )
+                li = (tuple(poles_px[i]), _nearest_on_box(poles_px[i], bi))
+                lj = (tuple(poles_px[j]), _nearest_on_box(poles_px[j], bj))
+                if _segments_cross(*li, *lj):
+                    continue
+                placer.release(spots[i][4])
+                placer.release(spots[j][4])
+                if placer.clear(np.array([bi]))[0] and placer.clear(np.array([bj]))[0]:
+                    placer.retake(spots[i][4], bi)
+                    placer.retake(spots[j][4], bj)
+                    spots[i][1], spots[j][1] = cj, ci
+                    leaders[i], leaders[j] = li, lj
+                    changed = True
+                else:
+                    placer.retake(spots[i][4], _boxes_at(ci, spots[i][2], spots[i][2])[0])
+                    placer.retake(spots[j][4], _boxes_at(cj, spots[j][2], spots[j][2])[0])
+        placer.leaders[:] = list(leaders.values())
+        if not changed:
+            break
+
+
+def _clear_leader_paths(placer, spots, leaders, polys_px, poles_px):
+    """Move a number that sits inside its domain off any leader running through it.
+
+    Elsewhere inside its domain where there is room, else out as a callout of its own.
+    """
+    if not leaders:
+        return
+    segs = list(leaders.values())
+    for i, spot in spots.items():
+        if i in leaders:
+            continue
+        box = _boxes_at(spot[1], spot[2], spot[2])[0]
+        if not _segments_hit_boxes(segs, [box])[0]:
+            continue
+        placer.release(spot[4])
+        c = _fit_inside(placer, polys_px[i], spot[2], spot[2], placer.soft_lines, hard_lines=segs)
+        if c is None:
+            c = place_callout(placer, poles_px[i], spot[2], spot[2])
+            if c is not None:
+                leaders[i] = (
+                    tuple(poles_px[i]),
+                    _nearest_on_box(poles_px[i], _boxes_at(c, spot[2], spot[2])[0]),
+                )
+                placer.leaders.append(leaders[i])
+                segs.append(leaders[i])
+        if c is not None:
+            spot[1] = c
+            box = _boxes_at(c, spot[2], spot[2])[0]
+        placer.retake(spot[4], box)
+
+
 def number_pending(ax, dmap, placer, pending, polys_px, poles_px):
     """Mark each domain in ``pending`` by a number in a small circle; return {domain: number}.
 
     Numbers run in reading order of the label points (top to bottom, then
-    left to right). A number sits at its domain's label point when that spot
-    is free, else at the roomiest free spot inside the domain, else in a
-    smaller size; failing all, just outside with a short leader. Numbers
-    never overlap each other or the labels already placed.
+    left to right). First every number that fits wholly inside its own
+    domain goes there (the roomiest free spot, in the usual size and then a
+    smaller one); the others become callouts: a circle at a free spot off the
+    boundary lines (:func:`place_callout`) with a leader to the domain's label
+    point. Numbers never overlap each other, the labels already placed or the
+    boundary lines.
     """
-    import shapely
-
     ppt = placer.px_per_pt
     # reading order in bands of ~14 pt so nearly level points read left to right
     band = 14 * ppt
     order = sorted(pending, key=lambda i: (-round(poles_px[i][1] / band), poles_px[i][0]))
     numbers = {i: n for n, i in enumerate(order, start=1)}
+    outside, spots = [], {}  # spots: domain -> [text, centre, diameter, offset, box row]
     for i in sorted(pending, key=lambda k: dmap.domains[k].area):
         gid = f"pourbaix-label:number:{i}"
-        pole = poles_px[i]
-        done = False
         for size in _NUMBER_SIZES:
             t = _number_text(ax, numbers[i], size, gid, zorder=8)
             d, ox, oy = _circle_size(placer, t, size)
-            box = _boxes_at(pole, d, d)
-            c = None
-            if placer.clear(box)[0] and polys_px[i].contains(shapely.Point(pole)):
-                c = tuple(pole)
-            else:
-                c = _fit_inside(placer, polys_px[i], d, d)
+            # inside its own domain only where the whole circle fits (never astride a boundary)
+            c = _fit_inside(placer, polys_px[i], d, d, placer.soft_lines)
             if c is not None:
-                t.set_position(placer.to_data((c[0] - ox, c[1] - oy)))
-                placer.take(_boxes_at(c, d, d)[0])
-                done = True
+                spots[i] = [t, c, d, (ox, oy), placer.take(_boxes_at(c, d, d)[0])]
                 break
             t.remove()
-        if done:
-            continue
+        else:
+            outside.append(i)
+    leaders = {}
+    for i in outside:
+        pole = poles_px[i]
         size = _NUMBER_SIZES[-1]
-        t = _number_text(ax, numbers[i], size, gid, zorder=8)
+        t = _number_text(ax, numbers[i], size, f"pourbaix-label:number:{i}", zorder=8)
         d, ox, oy = _circle_size(placer, t, size)
-        c = _place_outside(placer, pole, d, d, [], [])
+        c = place_callout(placer, pole, d, d, [poles_px[k] for k in outside if k != i])
         if c is None:  # no free spot anywhere in the axes: at the point regardless
             c = tuple(pole)
         box = _boxes_at(c, d, d)[0]
+        spots[i] = [t, c, d, (ox, oy), placer.take(box)]
+        leaders[i] = (tuple(pole), _nearest_on_box(pole, box))
+        placer.leaders.append(leaders[i])
+    _uncross_leaders(placer, spots, leaders, poles_px)
+    _clear_leader_paths(placer, spots, leaders, polys_px, poles_px)
+    for t, c, _d, (ox, oy), _row in spots.values():
         t.set_position(placer.to_data((c[0] - ox, c[1] - oy)))
-        placer.take(box)
-        q = _nearest_on_box(pole, box)
-        placer.leaders.append((tuple(pole), q))
-        a, b = placer.to_data(pole), placer.to_data(q)
+    for i, (p, q) in leaders.items():
+        a, b = placer.to_data(p), placer.to_data(q)
         ax.plot(
             [a[0], b[0]],
             [a[1], b[1]],
@@ -597,8 +724,10 @@ def label_line(
     """Label a straight line E = e0 + slope pH along it, at the first free spot.
 
     Spots are tried from the right end leftwards, on the preferred side of
-    the line and then on the other; one whose box crosses no boundary is
-    preferred, then any spot clear of the other labels.
+    the line and then on the other, in the given size and then a smaller one;
+    a spot must be clear of the other labels and cross no boundary. Where no
+    spot is, the line goes unlabelled (the map's legend names it) and None is
+    returned.
     """
     x0, x1 = ax.get_xlim()
     y0, y1 = ax.get_ylim()
@@ -614,9 +743,14 @@ def label_line(
         rotation_mode="anchor",
     )
     tr = ax.transData
-    fallback = None
-    spots = [(f, side) for side in (above, not above) for f in np.linspace(0.9, 0.06, 36)]
-    for f, side in spots:
+    spots = [
+        (s, f, side)
+        for s in (size, size - 1.5)
+        for side in (above, not above)
+        for f in np.linspace(0.9, 0.06, 36)
+    ]
+    for s, f, side in spots:
+        t.set_fontsize(s)
         ph = x0 + f * (x1 - x0)
         e = e0 + slope * ph
         if not (y0 < e < y1):
@@ -626,38 +760,31 @@ def label_line(
         ang = math.degrees(math.atan2(q[1] - p[1], q[0] - p[0]))
         t.set_rotation(ang)
         # centre the text a little above (or below) the line, measured across the line
-        hh = 0.66 * size * placer.px_per_pt
+        hh = 0.66 * s * placer.px_per_pt
         nx, ny = -math.sin(math.radians(ang)), math.cos(math.radians(ang))
         sgn = 1.0 if side else -1.0
         c = (p[0] + sgn * nx * hh, p[1] + sgn * ny * hh)
         t.set_position(placer.to_data(c))
         ext = t.get_window_extent(placer.renderer)
         box = np.array([[ext.x0, ext.y0, ext.x1, ext.y1]])
-        if placer.clear(box)[0]:
-            if not placer.crosses_lines(box[0]):
-                placer.take(box[0])
-                t.set_gid(gid)
-                return t
-            if fallback is None:
-                fallback = (ang, c, box[0])
-    if fallback is not None:
-        ang, c, box = fallback
-        t.set_rotation(ang)
-        t.set_position(placer.to_data(c))
-        placer.take(box)
-        t.set_gid(gid)
-        return t
+        if placer.clear(box)[0] and not placer.crosses_lines(box[0]):
+            placer.take(box[0])
+            t.set_gid(gid)
+            return t
     t.remove()
     return None
 
 
 def label_neutral(ax, placer, neutral):
-    """Small note beside the neutral-pH line, upright or level, at a free spot."""
+    """Small note beside the neutral-pH line, upright or level, at a free spot.
+
+    The note crosses no boundary; where no such spot is free it is left out (the
+    legend names the line and its pH).
+    """
     y0, y1 = ax.get_ylim()
     t = ax.text(
         0, 0, f"neutral pH {neutral:.2f}", fontsize=7, color="#262626", va="center", zorder=6
     )
-    fallback = None
     for rotation in (90, 0):
         t.set_rotation(rotation)
         for f in (0.86, 0.14, 0.75, 0.25, 0.64, 0.36, 0.5, 0.95, 0.05):
@@ -667,21 +794,10 @@ def label_neutral(ax, placer, neutral):
                 t.set_position(placer.to_data((p[0] + side * 3.0 * placer.px_per_pt, p[1])))
                 ext = t.get_window_extent(placer.renderer)
                 box = np.array([[ext.x0, ext.y0, ext.x1, ext.y1]])
-                if placer.clear(box)[0]:
-                    if not placer.crosses_lines(box[0], clearance_pt=1.5):
-                        placer.take(box[0])
-                        t.set_gid("pourbaix-label:neutral")
-                        return t
-                    if fallback is None:
-                        fallback = (rotation, t.get_ha(), t.get_position(), box[0])
-    if fallback is not None:
-        rotation, ha, pos, box = fallback
-        t.set_rotation(rotation)
-        t.set_ha(ha)
-        t.set_position(pos)
-        placer.take(box)
-        t.set_gid("pourbaix-label:neutral")
-        return t
+                if placer.clear(box)[0] and not placer.crosses_lines(box[0], clearance_pt=1.5):
+                    placer.take(box[0])
+                    t.set_gid("pourbaix-label:neutral")
+                    return t
     t.remove()
     return None
 

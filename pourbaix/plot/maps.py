@@ -40,7 +40,6 @@ from pourbaix.plot.style import (
     OVERLAY_STYLES,
     READING_CAUTION,
     STATE_NAMES,
-    WATER_COLOUR,
     activity_text,
     caption_lines,
     fit_bottom,
@@ -133,7 +132,7 @@ def draw_map(
         right = 0.885 if second_reference else 0.965
         width_pt = (right - 0.105) * fig.get_figwidth() * 72.0
         cap = caption_lines(c, extra, dmap, width_pt) if caption else []
-        fit_bottom(fig, 44 + (22 if reading else 0) + CAPTION_LINE_PT * len(cap) + 6, right=right)
+        fit_bottom(fig, 44 + 18 + CAPTION_LINE_PT * len(cap) + 6, right=right)
     else:
         width_pt = ax.get_position().width * ax.figure.get_figwidth() * 72.0
         cap = caption_lines(c, extra, dmap, width_pt) if caption else []
@@ -145,7 +144,7 @@ def draw_map(
         second_axis(ax, *second)
     neutral = neutral_ph_in_window(dmap) if water else None
     if water:
-        draw_water(ax, dmap)
+        draw_water(ax, dmap, colour=pal["water"])
         if neutral is not None:
             ax.axvline(
                 neutral,
@@ -180,29 +179,13 @@ def draw_map(
     # legend and caption first, so a layout engine makes room for them before labels are placed
     renderer = get_renderer(fig, layout=False)
     offset = bottom_band(ax, renderer)
-    if reading:
-        from matplotlib.patches import Patch
-
-        handles = [
-            Patch(
-                facecolor=pal[s][0],
-                edgecolor=INK,
-                linewidth=0.5,
-                hatch=HATCH[s] if HATCH[s] else None,
-            )
-            for s in ("immunity", "passivation", "corrosion")
-        ]
-        leg = bottom_legend(
-            ax,
-            handles,
-            [STATE_NAMES[s] for s in ("immunity", "passivation", "corrosion")],
-            offset,
-            title=None,
-            ncol=3,
-        )
-        offset += legend_height_pt(leg, renderer) + 5
+    leg = _state_legend(ax, dmap, pal, offset, reading=reading, water=water, neutral=neutral)
+    offset += legend_height_pt(leg, renderer) + 5
     if cap:
-        add_caption(ax, cap, offset)
+        text = add_caption(ax, cap, offset)
+        offset += text.get_window_extent(renderer).height * 72.0 / fig.dpi
+    if own:  # make room for what was measured below the axes
+        fit_bottom(fig, offset + 8, right=right)
     renderer = get_renderer(fig)
     if labels:
         soft = []
@@ -228,6 +211,8 @@ def draw_map(
     else:
         placer, pending, polys_px, poles_px = Placer(ax, renderer), [], [], []
     placer.add_lines([(b.start, b.end) for b in dmap.boundaries])
+    if labels:
+        placer.soft_lines = list(soft)
     if neutral is not None:
         placer.add_lines([((neutral, c.potential_range_v[0]), (neutral, c.potential_range_v[1]))])
     if water:
@@ -241,7 +226,7 @@ def draw_map(
                     texts[key],
                     e0,
                     s,
-                    colour=WATER_COLOUR,
+                    colour=pal["water"],
                     above=above,
                     gid=f"pourbaix-label:water:{key}",
                 )
@@ -255,6 +240,33 @@ def draw_map(
         else:
             label_pending(ax, dmap, placer, pending, polys_px, poles_px)
     return ax
+
+
+def _state_legend(ax, dmap, pal, offset_pt, *, reading, water, neutral):
+    """Legend below the axes: the states shown on the map, the water lines and neutral pH."""
+    from matplotlib.lines import Line2D
+    from matplotlib.patches import Patch
+
+    shown = {d.state for d in dmap.domains}
+    states = [s for s in ("immunity", "passivation", "corrosion") if s in shown or reading]
+    handles = [
+        Patch(
+            facecolor=pal[s][0],
+            edgecolor=INK,
+            linewidth=0.5,
+            hatch=HATCH[s] if reading and HATCH[s] else None,
+        )
+        for s in states
+    ]
+    # the reading spells the states out; a plain map keeps the legend to one row
+    texts = [STATE_NAMES[s] if reading else s for s in states]
+    if water and dmap.water:
+        handles.append(Line2D([], [], color=pal["water"], lw=1.1, ls=(0, (5, 3))))
+        texts.append("water stable between the dashed lines" if reading else "water limits")
+    if neutral is not None:
+        handles.append(Line2D([], [], color="#4a4a4a", lw=0.7, ls=(0, (1, 2.2))))
+        texts.append(f"neutral pH {neutral:.2f}")
+    return bottom_legend(ax, handles, texts, offset_pt, title=None, ncol=len(handles))
 
 
 def _condition_labels(maps):

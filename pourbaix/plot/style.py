@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import math
 import os
+import re
 import sys
 import warnings
 from pathlib import Path
@@ -21,6 +22,8 @@ from pourbaix.errors import OptionError
 from pourbaix.tables.formula import _TO_SUPER
 
 __all__ = [
+    "text_width_pt",
+    "typeset_formulas",
     "BOX_PAD_PT",
     "CAPTION_COLOUR",
     "CAPTION_LINE_PT",
@@ -66,12 +69,14 @@ PALETTES = {
         "passivation": ("#b8d0e6", "#a9c5df", "#a6c8d8", "#9fbfdc", "#b0cae2"),
         "immunity": ("#98a1ab", "#8d97a2", "#a2aab3"),
         "hatch": "#8a6a3c",
+        "water": "#1d4f91",
     },
     "grey": {
         "corrosion": ("#f3f3f3", "#ebebeb", "#f8f8f8", "#e6e6e6", "#efefef"),
         "passivation": ("#c9c9c9", "#bebebe", "#d2d2d2", "#b8b8b8", "#c4c4c4"),
         "immunity": ("#9a9a9a", "#919191", "#a3a3a3"),
         "hatch": "#555555",
+        "water": "#262626",
     },
 }
 
@@ -126,11 +131,11 @@ def new_axes(figsize=FIGURE_SIZE_IN):
 
 def fit_bottom(fig, bottom_pt, right=None):
     """Set a new figure's margins; a taller bottom band grows the figure, not shrinks the map."""
-    base_pt = 44 + 2 * CAPTION_LINE_PT + 6  # two caption lines fit the default size
-    w, h = fig.get_size_inches()
-    if bottom_pt > base_pt:
-        h = FIGURE_SIZE_IN[1] + (bottom_pt - base_pt) / 72.0
-        fig.set_size_inches(w, h)
+    base_pt = 44 + _LEGEND_ROW_PT + 2 * CAPTION_LINE_PT + 6  # a legend row, two caption lines
+    bottom_pt = max(bottom_pt, base_pt)  # the map keeps one height whatever sits below it
+    w = fig.get_size_inches()[0]
+    h = FIGURE_SIZE_IN[1] + (bottom_pt - base_pt) / 72.0
+    fig.set_size_inches(w, h)
     top_pt = (1 - 0.925) * FIGURE_SIZE_IN[1] * 72.0
     kw = {} if right is None else {"right": right}
     fig.subplots_adjust(left=0.105, top=1 - top_pt / 72.0 / h, bottom=bottom_pt / 72.0 / h, **kw)
@@ -152,7 +157,7 @@ def resolve_palette(name):
             raise OptionError(
                 f"palette dict lacks {', '.join(missing)}; give colours for corrosion, passivation, immunity"
             )
-        return {"hatch": INK, **name}
+        return {"hatch": INK, "water": WATER_COLOUR, **name}
     try:
         return PALETTES[name]
     except (KeyError, TypeError):
@@ -236,34 +241,114 @@ def _caption_parts(c, extra=(), dmap=None):
                 ]
             )
     warns = list(getattr(dmap, "warnings", ()) or ()) if dmap is not None else []
-    if warns:
-        w = warns[0] if len(warns[0]) <= 100 else warns[0][:98].rstrip(" ,;:") + "…"
-        more = f" (+{len(warns) - 1} more)" if len(warns) > 1 else ""
-        lines.append([f"Warning: {w}{more} (full text: the map's warnings)"])
+    for n, w in enumerate(warns[:_CAPTION_WARNINGS]):
+        w = typeset_formulas(str(w))
+        if len(w) > _CAPTION_WARNING_CHARS:
+            w = w[: _CAPTION_WARNING_CHARS - 2].rsplit(" ", 1)[0].rstrip(" ,;:") + " …"
+        more = len(warns) - _CAPTION_WARNINGS
+        tail = (
+            f" (+{more} more: the map's warnings)"
+            if n == _CAPTION_WARNINGS - 1 and more > 0
+            else ""
+        )
+        lines.append([f"Warning: {w}{tail}"])
     lines += [[e] for e in extra]
     return lines
 
 
-def pack_caption(lines, width_pt, fontsize):
-    """Lay caption parts into lines no wider than ``width_pt`` (estimated from the font size)."""
-    import textwrap
+def text_width_pt(text, fontsize):
+    """Width of a line of text in the figures' font [pt] (measured from the font's glyph metrics)."""
+    from matplotlib.font_manager import FontProperties
+    from matplotlib.textpath import text_to_path
 
-    chars = max(int(width_pt / (0.47 * fontsize)), 30)
+    if not text:
+        return 0.0
+    width, _, _ = text_to_path.get_text_width_height_descent(
+        text, FontProperties(size=fontsize), ismath=False
+    )
+    return float(width)
+
+
+def _wrap_measured(text, width_pt, fontsize):
+    """Break one line of text at spaces into lines no wider than ``width_pt``.
+
+    Word widths are measured once and added (with the space's width); a 2 %
+    margin covers the kerning between words that the sum leaves out.
+    """
+    words = text.split(" ")
+    widths = [text_width_pt(w, fontsize) for w in words]
+    space = text_width_pt("a a", fontsize) - text_width_pt("aa", fontsize)
+    limit = 0.98 * width_pt
+    out, cur, cur_w = [], [], 0.0
+    for word, w in zip(words, widths, strict=True):
+        cand_w = w if not cur else cur_w + space + w
+        if cur and cand_w > limit:
+            out.append(" ".join(cur))
+            cur, cur_w = [word], w
+        else:
+            cur.append(word)
+            cur_w = cand_w
+    out.append(" ".join(cur))
+    return out
+
+
+def pack_caption(lines, width_pt, fontsize):
+    """Lay caption parts into lines no wider than ``width_pt`` (measured in the figures' font).
+
+    Parts of one logical line are joined by a middle dot while they fit; a
+    part too wide by itself is wrapped at spaces.
+    """
     out = []
     for parts in lines:
         cur = ""
         for part in parts:
             cand = part if not cur else f"{cur}  ·  {part}"
-            if len(cand) <= chars or not cur:
+            if not cur or text_width_pt(cand, fontsize) <= 0.98 * width_pt:
                 cur = cand
             else:
-                out.append(cur)
+                out += _wrap_measured(cur, width_pt, fontsize)
                 cur = part
-        out += textwrap.wrap(cur, chars, break_on_hyphens=False) if len(cur) > chars else [cur]
+        out += _wrap_measured(cur, width_pt, fontsize)
     return out
 
 
+_FORMULA_TOKEN = re.compile(r"(?<![\w^])([A-Z][A-Za-z0-9()\[\]]*(?:\^\d*[+-])?(?:\(aq\))?)")
+
+
+def typeset_formulas(text):
+    """Write the formulas in a message the way the figures label species (Unicode sub/superscripts).
+
+    A word is typeset only when it reads as a formula of known elements with a
+    subscript or a charge (``FeOH^+`` -> ``FeOH⁺``, ``Fe(OH)2`` -> ``Fe(OH)₂``,
+    ``SO4^2-`` -> ``SO₄²⁻``); other words are left alone.
+
+    Examples
+    --------
+    >>> typeset_formulas("past the range: FeOH^+, Fe(OH)2, IAPWS-95 and R11-07")
+    'past the range: FeOH⁺, Fe(OH)₂, IAPWS-95 and R11-07'
+    """
+    from pourbaix.errors import PourbaixError
+    from pourbaix.tables.formula import parse_formula
+
+    def one(m):
+        word = m.group(1)
+        suffix = ""
+        if word.endswith("(aq)"):
+            word, suffix = word[:-4], "(aq)"
+        if not re.search(r"[A-Za-z)\]]\d|\^", word):
+            return m.group(0)
+        try:
+            return parse_formula(word).plain() + suffix
+        except (PourbaixError, ValueError):
+            return m.group(0)
+
+    return _FORMULA_TOKEN.sub(one, text)
+
+
 CAPTION_SIZE = 7.5  # [pt]
+_LEGEND_ROW_PT = 18.0  # [pt] one row of the legend below a map, with its gap
+_CAPTION_WARNINGS = 4  # warnings written out in a caption; the rest are counted
+_CAPTION_WARNING_CHARS = 260  # a longer warning is cut at a word (the map keeps the full text)
 CAPTION_LINE_PT = CAPTION_SIZE * 1.45
 
 
