@@ -439,9 +439,9 @@ def make_conditions(
         activity is molality × γ from the activity model. Refused outside
         1e-20 to 20, noted above 6.
     temperature_c : float
-        Temperature [°C], 0 to 300.
+        Temperature [°C], 0 to 350 along saturation, to 600 with a pressure.
     pressure_bar : float, optional
-        Pressure [bar], up to 1000; default 1 bar, or the saturation pressure
+        Pressure [bar], up to 5000; default 1 bar, or the saturation pressure
         above 100 °C.
     ionic_strength : float, optional
         Ionic strength [mol/kg], 0 to the activity model's limit.

@@ -304,8 +304,8 @@ def test_unknown_dataset():
 def test_dataset_switching(tables):
     base = tables["default"]
     for name, t in tables.items():
-        if name == "default":
-            continue
+        if name in ("default", "criss-cobble"):
+            continue  # criss-cobble chooses the older temperature routes, not other rows
         set_rows = [s for s in t.species if s.origin.startswith(f"species_data/sets/{name}/")]
         assert set_rows, f"data set {name} changes nothing"
         for sp in set_rows:

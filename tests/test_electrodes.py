@@ -72,7 +72,7 @@ def test_list_references_complete_with_sources():
     for r in refs:
         assert r["source"] and r["description"]
         lo, hi = r["valid_range_c"]
-        assert 0.0 <= lo < 25.0 < hi <= 300.0
+        assert 0.0 <= lo < 25.0 < hi <= 600.0
     rhe = refs[names.index("RHE")]
     assert rhe["offset_v"] is None and rhe["dE_dT_v_per_k"] is None
 
@@ -195,7 +195,7 @@ def test_range_warnings():
         electrodes.reference_offset("RHE", 250.0, ph=7.0)
         electrodes.reference_offset("SHE", 250.0)
     with pytest.raises(ConditionsError, match="outside"):
-        electrodes.reference_offset("SHE", 320.0)
+        electrodes.reference_offset("SHE", 620.0)
 
 
 @pytest.mark.parametrize(

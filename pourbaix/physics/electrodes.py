@@ -165,7 +165,7 @@ REFERENCES: dict[str, ReferenceElectrode] = {
         ReferenceElectrode(
             "SHE",
             0.0,
-            (0.0, 300.0),
+            (0.0, 600.0),
             "standard hydrogen electrode (H2 at 1 bar, a(H+) = 1); the zero of the scale",
             "definition (IUPAC)",
             "zero at every temperature by convention",

@@ -32,6 +32,7 @@ from pourbaix.physics import thermo
 __all__ = [
     "SpeciesEnergy",
     "EnergyContext",
+    "aqueous_route_of",
     "make_context",
     "context_for",
     "reference_species",
@@ -65,6 +66,8 @@ class EnergyContext:
         Activity of water [-].
     element_g_kj : dict
         Apparent Gibbs energy of each element's reference species at T [kJ/mol].
+    aqueous_route : str
+        ``"hkf"`` or ``"criss-cobble"`` (see :func:`thermo.species_gibbs`).
     """
 
     temperature_c: float
@@ -75,6 +78,7 @@ class EnergyContext:
     g_oxygen_kj: float
     water_activity: float
     element_g_kj: dict
+    aqueous_route: str = "hkf"
 
 
 @dataclass(frozen=True)
@@ -109,11 +113,16 @@ class SpeciesEnergy:
     plane: tuple
 
 
-def _gibbs(sp, temperature_c):
-    if temperature_c == 25.0:
+def _gibbs(sp, temperature_c, pressure_bar=1.0, aqueous_route="hkf"):
+    if temperature_c == 25.0 and pressure_bar == 1.0:
         return sp.dgf_kj_mol, "25 °C value", float("inf")
-    res = thermo.species_gibbs(sp, temperature_c)
+    res = thermo.species_gibbs(sp, temperature_c, pressure_bar, aqueous_route)
     return float(res.dg_kj_mol), res.route, float(res.valid_to_c)
+
+
+def aqueous_route_of(table):
+    """``"criss-cobble"`` for the data set of that name, else ``"hkf"``."""
+    return "criss-cobble" if getattr(table, "dataset", "") == "criss-cobble" else "hkf"
 
 
 def make_context(table, temperature_c=25.0, pressure_bar=None, water_activity=1.0, elements=()):
@@ -181,19 +190,25 @@ def context_for(table, conditions, elements=None):
 
 
 def _context(table, t, props, nernst_v, water_activity, elements):
+    p = float(props.pressure_bar)
+    if not (t == T_REF_C and p == 1.0):
+        from pourbaix.physics.hkf import check_hkf_range
+
+        check_hkf_range(t, p, props.density_kg_m3 / 1000.0)
+    route = aqueous_route_of(table)
     water = table.get("H2O", "l")
     h2 = table.get("H2", "g")
     o2 = table.get("O2", "g")
-    if t == T_REF_C:
+    if t == T_REF_C and p == 1.0:
         g_w = water.dgf_kj_mol
     else:
         # the table's 25 °C value carried to (T, P) by IAPWS-95 (keeps one source for water)
         g_w = water.dgf_kj_mol + float(props.gibbs_kj_mol - thermo.water_gibbs(T_REF_C, 1.0))
-    g_h2 = _gibbs(h2, t)[0]
-    g_o2 = _gibbs(o2, t)[0]
+    g_h2 = _gibbs(h2, t, p, route)[0]
+    g_o2 = _gibbs(o2, t, p, route)[0]
     element_g = {}
     for el in elements:
-        element_g[el] = _gibbs(reference_species(table, el), t)[0]
+        element_g[el] = _gibbs(reference_species(table, el), t, p, route)[0]
     return EnergyContext(
         temperature_c=t,
         pressure_bar=float(props.pressure_bar),
@@ -203,6 +218,7 @@ def _context(table, t, props, nernst_v, water_activity, elements):
         g_oxygen_kj=float(g_o2),
         water_activity=water_activity,
         element_g_kj=element_g,
+        aqueous_route=route,
     )
 
 
@@ -225,7 +241,7 @@ def water_energy(table, ctx):
         table.get("H2O", "l"),
         ctx.g_water_kj,
         "IAPWS-95",
-        300.0,
+        thermo.T_MAX_C,
         ctx.water_activity,
         1.0,
         (0.0, 0.0, 0.0),
@@ -299,7 +315,7 @@ def species_energy(sp, element, ctx, activity=1.0, gamma=1.0, ligand_elements=()
             f"species {sp.name} holds {', '.join(sorted(extra))}, outside the system"
         )
     h, o, z = comp.get("H", 0), comp.get("O", 0), sp.charge
-    dg, route, valid = _gibbs(sp, ctx.temperature_c)
+    dg, route, valid = _gibbs(sp, ctx.temperature_c, ctx.pressure_bar, ctx.aqueous_route)
     k = ctx.nernst_v
     n_h = 2 * o - h
     n_e = 2 * o - h + z

@@ -454,7 +454,12 @@ def bdot(temperature_c=25.0):
     Raises
     ------
     ConditionsError
-        If the temperature is outside 0-300 °C.
+        If the temperature is outside 0-600 °C.
+
+    Warns
+    -----
+    RangeWarning
+        Above 300 °C, the end of the table.
 
     Notes
     -----
@@ -467,6 +472,13 @@ def bdot(temperature_c=25.0):
     0.041
     """
     t = check_temperature(temperature_c)
+    if np.any(np.asarray(t) > _BDOT_T_C[-1]):
+        warnings.warn(
+            f"the B-dot table of Helgeson (1969) ends at {_BDOT_T_C[-1]:g} °C; "
+            "its last value is used above",
+            RangeWarning,
+            stacklevel=2,
+        )
     return (
         float(np.interp(t, _BDOT_T_C, _BDOT))
         if isinstance(t, float)

@@ -2,7 +2,9 @@
 
 Everything here is a plain function over floats (most also over numpy arrays).
 Temperatures are in degrees Celsius at the interface (``temperature_c``) and in
-kelvin inside the formulas. The range of the tool is 0-300 °C; outside it a
+kelvin inside the formulas. The range of the tool is 0-350 °C along the
+liquid-vapour saturation curve and 0-600 °C up to 5000 bar where water is
+dense enough for the HKF equations (:mod:`pourbaix.physics.hkf`); outside it a
 :class:`~pourbaix.errors.ConditionsError` is raised. Inside it, a route that is
 used beyond the range it can be trusted for emits a :class:`RangeWarning`.
 
@@ -29,6 +31,7 @@ __all__ = [
     "T_REF",
     "T_MIN_C",
     "T_MAX_C",
+    "T_SATURATION_MAX_C",
     "P_REF_BAR",
     "P_MAX_BAR",
     "RangeWarning",
@@ -42,6 +45,9 @@ __all__ = [
     "criss_cobble_kind",
     "criss_cobble_cp",
     "species_gibbs",
+    "AQUEOUS_ROUTES",
+    "kopp_heat_capacity",
+    "heat_capacity_gibbs",
     "saturation_pressure",
     "water_properties",
     "water_gibbs",
@@ -53,11 +59,12 @@ __all__ = [
 T_REF = T_REF_K  # reference temperature [K]
 
 T_MIN_C = 0.0  # lowest temperature the tool accepts [°C]
-T_MAX_C = 300.0  # highest temperature the tool accepts [°C]
-# Highest pressure accepted. IAPWS-95, the dielectric release and R11-07 all
-# hold far beyond this; the limit is where the activity models and the 1-bar
-# species data stop making sense for plant and field waters (judgement).
-P_MAX_BAR = 1000.0
+T_MAX_C = 600.0  # highest temperature the tool accepts, at pressures above saturation [°C]
+T_SATURATION_MAX_C = 350.0  # highest temperature along liquid-vapour saturation [°C]
+# Highest pressure accepted: the range of the g-function fit of the HKF equations
+# (Shock et al. 1992, to 5 kbar); IAPWS-95, R8-97 and R11-07 hold beyond it.
+P_MAX_BAR = 5000.0
+_T_CRITICAL_K = 647.096  # critical temperature of water (IAPWS-95) [K]
 
 _LN10 = LN10
 _CAL = CAL  # thermochemical calorie [J]
@@ -110,7 +117,7 @@ class WaterProperties(NamedTuple):
 
 
 def check_temperature(temperature_c, what="temperature"):
-    """Return ``temperature_c`` as float or array after checking the 0-300 °C range.
+    """Return ``temperature_c`` as float or array after checking the 0-600 °C range.
 
     Parameters
     ----------
@@ -127,7 +134,8 @@ def check_temperature(temperature_c, what="temperature"):
     Raises
     ------
     ConditionsError
-        If any value is not a finite number between 0 and 300 °C.
+        If any value is not a finite number between 0 and 600 °C (above
+        350 °C a pressure must also be given; see :func:`water_properties`).
     """
     try:
         t = np.asarray(temperature_c, dtype=float)
@@ -462,12 +470,152 @@ def _is_liquid_water(phase, charge, composition):
 
 # Upper temperature limits of each route [°C] (judgement, stated in the docs).
 _VALID_CONSTANT_CP_AQ = 150.0
-_VALID_CONSTANT_CP_OTHER = 300.0
+# solids, liquids, gases with a constant Cp: Cp of solids rises by 10-20 % from 25 to
+# 350 °C, about 1 kJ/mol in ΔG at 350 °C (judgement)
+_VALID_CONSTANT_CP_OTHER = 350.0
 _VALID_S_ONLY = 100.0
 
+# Kopp's rule: atomic heat capacities of solids at 25 °C [J/(mol K)] (Kopp 1864, the
+# values as tabulated in Perry's Chemical Engineers' Handbook; from memory); others 25.9
+_KOPP_J_MOLK = {
+    "H": 9.6,
+    "B": 11.3,
+    "C": 7.5,
+    "O": 16.7,
+    "F": 20.9,
+    "Si": 15.9,
+    "P": 22.6,
+    "S": 22.6,
+}
+_KOPP_OTHER_J_MOLK = 25.9
 
-def species_gibbs(species_like, temperature_c, pressure_bar=None):
-    """Apparent Gibbs energy of one species at T, with the route taken.
+#: Routes of :func:`species_gibbs` for aqueous species: the HKF equations of state
+#: (default) or the older Criss–Cobble correspondence (kept for comparison).
+AQUEOUS_ROUTES = ("hkf", "criss-cobble")
+
+
+def kopp_heat_capacity(composition):
+    """Heat capacity of a solid at 25 °C estimated by Kopp's rule.
+
+    Parameters
+    ----------
+    composition : Mapping
+        Element -> atom count.
+
+    Returns
+    -------
+    float
+        Cp [J/(mol K)].
+
+    Notes
+    -----
+    Cp = Σ n_i c_i with the atomic contributions of Kopp (1864): H 9.6, B 11.3,
+    C 7.5, O 16.7, F 20.9, Si 15.9, P 22.6, S 22.6, other elements 25.9
+    J/(mol K) (as tabulated in Perry's Chemical Engineers' Handbook; from
+    memory). Typically within 10-20 % for oxides and hydroxides.
+
+    References
+    ----------
+    Kopp, H. Ann. Chem. Pharm. Suppl. 3, 1-134, 289-342 (1864).
+
+    Examples
+    --------
+    >>> round(kopp_heat_capacity({"Fe": 1, "O": 1, "H": 1}), 1)
+    52.2
+    """
+    # Kopp 1864: Cp(solid) = sum of atomic heat capacities
+    return float(sum(n * _KOPP_J_MOLK.get(e, _KOPP_OTHER_J_MOLK) for e, n in composition.items()))
+
+
+def heat_capacity_gibbs(dgf_kj_mol, s_j_molk, temperature_c, mk, transitions=()):
+    """Apparent Gibbs energy with Maier–Kelley heat capacities across phase transitions.
+
+    Parameters
+    ----------
+    dgf_kj_mol : float
+        ΔfG° at 25 °C [kJ/mol].
+    s_j_molk : float
+        S° at 25 °C [J/(mol K)].
+    temperature_c : float
+        Temperature [°C].
+    mk : tuple of float
+        ``(a, b, c)`` of the phase stable at 25 °C, Cp = a + bT + c/T²
+        [J/(mol K), J/(mol K²), J K/mol].
+    transitions : sequence of PhaseTransition
+        In rising temperature; each carries ΔH of transition and the
+        Maier–Kelley coefficients of the phase above it.
+
+    Returns
+    -------
+    tuple
+        ``(dg_kj_mol, crossed)``: ΔG at T [kJ/mol] and the number of
+        transitions below T.
+
+    Notes
+    -----
+    ΔG(T) = ΔfG° - S°(T - Tr) + Σ_k [∫Cp_k dT - T ∫Cp_k/T dT] + Σ_t ΔH_t (1 - T/T_t),
+    the integrals over each phase's own temperature interval (Helgeson et al.
+    1978, eqs. 59 and 71-72).
+
+    References
+    ----------
+    Helgeson, H. C.; Delany, J. M.; Nesbitt, H. W.; Bird, D. K. Am. J. Sci.
+    278-A, 1-229 (1978).
+
+    Examples
+    --------
+    >>> dg, n = heat_capacity_gibbs(0.0, 32.05, 25.0, (14.8, 0.0, 0.0))
+    >>> dg, n
+    (0.0, 0)
+    """
+    t = float(check_temperature(temperature_c))
+    tk = t + 273.15
+    if t == T_REF_C:
+        return float(dgf_kj_mol), 0
+    coeffs = [tuple(float(v) for v in mk)]
+    bounds = [T_REF]
+    extra = 0.0
+    crossed = 0
+    for tr in transitions:
+        if tr.t_k >= tk or tr.t_k <= T_REF:
+            continue
+        crossed += 1
+        bounds.append(tr.t_k)
+        coeffs.append((tr.mk_a_j_molk, tr.mk_b_j_molk2, tr.mk_c_jk_mol))
+        # Helgeson et al. 1978, eq. 72: a transition adds dH_t to H and dH_t/T_t to S
+        extra += tr.dh_j_mol * (1.0 - tk / tr.t_k)
+    bounds.append(tk)
+    int_cp = int_cp_t = 0.0
+    for (a, b, c), t1, t2 in zip(coeffs, bounds[:-1], bounds[1:], strict=True):
+        # Maier & Kelley 1932 Cp = a + bT + c/T^2, integrated from t1 to t2
+        int_cp += a * (t2 - t1) + 0.5 * b * (t2**2 - t1**2) - c * (1.0 / t2 - 1.0 / t1)
+        int_cp_t += a * math.log(t2 / t1) + b * (t2 - t1) - 0.5 * c * (1.0 / t2**2 - 1.0 / t1**2)
+    # Helgeson et al. 1978, eq. 59
+    dg = dgf_kj_mol + (-float(s_j_molk) * (tk - T_REF) + int_cp - tk * int_cp_t + extra) / 1000.0
+    return float(dg), crossed
+
+
+def _transitions_of(species_like):
+    key = getattr(species_like, "key", None)
+    if key is None:
+        return ()
+    from pourbaix.tables.transitions import load_transitions
+
+    return load_transitions().get(key, ())
+
+
+def _volume_term(species_like, pressure_bar, transitions_crossed=()):
+    """V°(P - Pr) of a solid or liquid [kJ/mol] and whether a volume was available."""
+    v = _attr(species_like, "v_cm3_mol")
+    if v is None:
+        return 0.0, False
+    v = float(v) + sum(t.dv_cm3_mol or 0.0 for t in transitions_crossed)
+    # constant molar volume (Helgeson et al. 1978, eq. 62); 1 cm3 bar = 0.1 J
+    return v * (pressure_bar - P_REF_BAR) * 0.1 / 1000.0, True
+
+
+def species_gibbs(species_like, temperature_c, pressure_bar=None, aqueous_route="hkf"):
+    """Apparent Gibbs energy of one species at (T, P), with the route taken.
 
     Parameters
     ----------
@@ -476,12 +624,16 @@ def species_gibbs(species_like, temperature_c, pressure_bar=None):
         "g"), ``charge``, ``composition`` (Mapping element -> count),
         ``dgf_kj_mol``, ``dhf_kj_mol``, ``s_j_molk``, ``cp_j_molk``,
         ``mk_a_j_molk``, ``mk_b_j_molk2``, ``mk_c_jk_mol``, ``mk_tmax_k``
-        (missing values None or NaN).
+        (missing values None or NaN); optionally ``hkf``, ``v_cm3_mol`` and
+        ``key`` (for the phase transitions of the tables).
     temperature_c : float
         Temperature [°C].
     pressure_bar : float, optional
-        Pressure, used for liquid water only (see :func:`water_properties`)
-        [bar].
+        Pressure; default 1 bar, or saturation above 100 °C (see
+        :func:`water_properties`) [bar].
+    aqueous_route : str
+        ``"hkf"`` (default) or ``"criss-cobble"`` (the older routes for
+        aqueous species, kept for comparison).
 
     Returns
     -------
@@ -491,26 +643,33 @@ def species_gibbs(species_like, temperature_c, pressure_bar=None):
     Raises
     ------
     ConditionsError
-        If the temperature is outside 0-300 °C.
+        Outside the range of the tool (see :func:`water_properties` and
+        :func:`pourbaix.physics.hkf.check_hkf_range`).
+    OptionError
+        An unknown ``aqueous_route``.
 
     Notes
     -----
     Routes, in order of preference:
 
     - H+(aq): 0 at every T (convention; the SHE stays the zero of the scale);
-    - H2O(l): IAPWS-95 (:func:`water_gibbs`), to 300 °C;
-    - exactly 25 °C: the tabulated value;
-    - Maier–Kelley coefficients: to ``mk_tmax_k`` (``math.inf`` if not given);
-    - a constant Cp: to 150 °C for aqueous species (ionic Cp varies strongly
-      with T) and 300 °C for solids, liquids and gases (judgement: Cp of
-      solids changes by 10-20 % over 300 K, a few tenths of a kJ/mol in ΔG);
-    - aqueous ions with S only: Criss–Cobble average Cp, to 200 °C;
-    - otherwise S only (Cp = 0), to 100 °C (error ≈ Cp (T-Tr)²/(2T), about
-      0.4 kJ/mol for Cp = 50 J/(mol K) at 100 °C);
+    - H2O(l): IAPWS-95 (:func:`water_gibbs`);
+    - exactly 25 °C and 1 bar: the tabulated value;
+    - aqueous species: "fitted HKF" with the row's HKF parameters, else
+      "estimated HKF" with parameters from S° (and Cp° if tabulated) by the
+      correlations of :func:`pourbaix.physics.hkf.estimate_hkf`; with
+      ``aqueous_route="criss-cobble"`` the older routes below instead;
+    - solids, liquids and gases: "Maier–Kelley" (with the tables' phase
+      transitions) to ``mk_tmax_k``; "constant Cp" to 350 °C; for solids
+      and liquids with S° but no Cp, "constant Cp (Kopp's rule)"; solids and
+      liquids add V°(P - 1 bar) when ``v_cm3_mol`` is given (gases: ideal gas
+      at 1 bar, no pressure term);
+    - older routes (``criss-cobble``, and gases without Cp): constant Cp to
+      150 °C for aqueous species, Criss–Cobble average Cp for ions to 200 °C,
+      S only (Cp = 0) to 100 °C;
     - no entropy at all: the 25 °C value unchanged, route
-      "no entropy: 25 °C value", trusted to 25 °C only (the error grows as
-      S (T - Tr), e.g. 10 kJ/mol for |S| = 100 J/(mol K) at 125 °C), so that
-      a map at T flags the species instead of failing.
+      "no entropy: 25 °C value", trusted to 25 °C only, so that a map at T
+      flags the species instead of failing.
 
     Examples
     --------
@@ -519,8 +678,12 @@ def species_gibbs(species_like, temperature_c, pressure_bar=None):
     ...       dhf_kj_mol=0.0, s_j_molk=0.0, cp_j_molk=0.0, mk_a_j_molk=None,
     ...       mk_b_j_molk2=None, mk_c_jk_mol=None, mk_tmax_k=None)
     >>> species_gibbs(h, 150.0)
-    GibbsResult(dg_kj_mol=0.0, route='convention (H+ = 0)', valid_to_c=300.0)
+    GibbsResult(dg_kj_mol=0.0, route='convention (H+ = 0)', valid_to_c=600.0)
     """
+    if aqueous_route not in AQUEOUS_ROUTES:
+        raise OptionError(
+            f"unknown aqueous route {aqueous_route!r}; valid: {', '.join(AQUEOUS_ROUTES)}"
+        )
     t = check_temperature(temperature_c)
     if not isinstance(t, float):
         raise ConditionsError("species_gibbs takes one temperature at a time")
@@ -533,18 +696,33 @@ def species_gibbs(species_like, temperature_c, pressure_bar=None):
 
     if _is_h_plus(phase, charge, composition):
         return GibbsResult(0.0, "convention (H+ = 0)", T_MAX_C)
+    reference_pressure = pressure_bar is None or float(pressure_bar) == P_REF_BAR
     if _is_liquid_water(phase, charge, composition):
-        if t == T_REF_C and pressure_bar is None:
+        if t == T_REF_C and reference_pressure:
             return GibbsResult(dgf, "25 °C value", T_MAX_C)
         dg = water_gibbs(t, pressure_bar) - _WATER_DGF_KJ_MOL + dgf
         return GibbsResult(dg, "IAPWS-95 (liquid water)", T_MAX_C)
-    if t == T_REF_C:
+    if t == T_REF_C and reference_pressure:
         return GibbsResult(dgf, "25 °C value", math.inf)
 
     s = _attr(species_like, "s_j_molk")
     if s is None:
         # nothing to carry the value to T: keep it and flag it as good for 25 °C only
         return GibbsResult(dgf, "no entropy: 25 °C value", T_REF_C)
+    water = water_properties(t, pressure_bar)
+    p = water.pressure_bar
+    if phase == "aq" and aqueous_route == "hkf":
+        from pourbaix.physics import hkf
+
+        params = _attr(species_like, "hkf")
+        route = "fitted HKF"
+        if params is None:
+            params = hkf.estimate_hkf(s, charge, _attr(species_like, "cp_j_molk"))
+            route = "estimated HKF"
+        dg = hkf.hkf_gibbs(
+            dgf, s, params, charge, t, p, water.density_kg_m3 / 1000.0, water.dielectric_constant
+        )
+        return GibbsResult(dg, route, hkf.HKF_T_MAX_C)
     mk_a = _attr(species_like, "mk_a_j_molk")
     if mk_a is not None:
         mk = (
@@ -554,21 +732,48 @@ def species_gibbs(species_like, temperature_c, pressure_bar=None):
         )
         tmax_k = _attr(species_like, "mk_tmax_k")
         valid = math.inf if tmax_k is None else float(tmax_k) - 273.15
-        return GibbsResult(apparent_gibbs(dgf, s, t, mk=mk), "Maier–Kelley", valid)
+        transitions = _transitions_of(species_like) if phase != "aq" else ()
+        dg, crossed = heat_capacity_gibbs(dgf, s, t, mk, transitions)
+        route = "Maier–Kelley" + (" with transitions" if crossed else "")
+        if phase in ("s", "l"):
+            dv, has_v = _volume_term(species_like, p, transitions[:crossed])
+            dg += dv
+            route += _no_volume(has_v, p)
+        return GibbsResult(dg, route, valid)
     cp = _attr(species_like, "cp_j_molk")
+    route = "constant Cp"
+    if cp is None and phase in ("s", "l"):
+        cp = kopp_heat_capacity(composition)
+        route = "constant Cp (Kopp's rule)"
     if cp is not None:
         valid = _VALID_CONSTANT_CP_AQ if phase == "aq" else _VALID_CONSTANT_CP_OTHER
-        return GibbsResult(apparent_gibbs(dgf, s, t, cp_j_molk=cp), "constant Cp", valid)
+        dg = float(apparent_gibbs(dgf, s, t, cp_j_molk=cp))
+        if phase in ("s", "l"):
+            dv, has_v = _volume_term(species_like, p)
+            dg += dv
+            route += _no_volume(has_v, p)
+        return GibbsResult(dg, route, valid)
     if phase == "aq" and charge != 0:
         kind = criss_cobble_kind(composition, charge)
         with warnings.catch_warnings():
             # the caller learns the limit from valid_to_c
             warnings.simplefilter("ignore", RangeWarning)
-            cp_avg = criss_cobble_cp(s, charge, t, kind=kind)
+            cp_avg = criss_cobble_cp(s, charge, min(t, CRISS_COBBLE_MAX_C), kind=kind)
         return GibbsResult(
-            apparent_gibbs(dgf, s, t, cp_j_molk=cp_avg), "Criss–Cobble", CRISS_COBBLE_MAX_C
+            float(apparent_gibbs(dgf, s, t, cp_j_molk=cp_avg)), "Criss–Cobble", CRISS_COBBLE_MAX_C
         )
-    return GibbsResult(apparent_gibbs(dgf, s, t), "S only (Cp = 0)", _VALID_S_ONLY)
+    return GibbsResult(float(apparent_gibbs(dgf, s, t)), "S only (Cp = 0)", _VALID_S_ONLY)
+
+
+# pressures up to this are treated as "about 1 bar or saturation" for the volume note [bar]
+_VOLUME_NOTE_BAR = 200.0
+
+
+def _no_volume(has_volume, pressure_bar):
+    """Route suffix when a solid's pressure term is left out for want of V°."""
+    if has_volume or pressure_bar <= _VOLUME_NOTE_BAR:
+        return ""
+    return "; no V°: pressure term left out"
 
 
 # --------------------------------------------------------------------------- water
@@ -645,13 +850,18 @@ def saturation_pressure(temperature_c):
     Raises
     ------
     ConditionsError
-        If the temperature is outside 0-300 °C.
+        If the temperature is outside 0 °C to the critical point (373.946 °C).
 
     Notes
     -----
     IAPWS-IF97 (Wagner et al. 2000), eq. 30, as coded in the iapws package.
     """
     t = check_temperature(temperature_c)
+    if t + 273.15 > _T_CRITICAL_K:
+        raise ConditionsError(
+            f"{t:g} °C is above the critical point of water (373.946 °C): "
+            "there is no saturation pressure; give a pressure"
+        )
     from iapws.iapws97 import _PSat_T
 
     # IAPWS-IF97, eq. 30 (saturation-pressure equation)
@@ -685,20 +895,21 @@ def _resolve_pressure(t, pressure_bar):
     2e-4 relative), so a pressure read back from a saturated state maps onto
     that same state.
     """
+    if pressure_bar is None and t > T_SATURATION_MAX_C:
+        raise ConditionsError(
+            f"temperature {t:g} °C is above {T_SATURATION_MAX_C:g} °C, the end of the range "
+            "along the saturation curve: give a pressure (e.g. --pressure 1000), up to "
+            f"{P_MAX_BAR:g} bar"
+        )
+    if pressure_bar is not None and t + 273.15 > _T_CRITICAL_K:
+        return _checked_pressure(pressure_bar) / 10.0
     psat = saturation_pressure(t)
     band = 1e-3
     if pressure_bar is None:
         if psat < P_REF_BAR * (1.0 - band):
             return P_REF_BAR / 10.0
         return None
-    try:
-        p = float(pressure_bar)
-    except (TypeError, ValueError):
-        raise ConditionsError(f"pressure {pressure_bar!r} is not a number of bar") from None
-    if not math.isfinite(p) or p <= 0.0:
-        raise ConditionsError(f"pressure {p:g} bar must be a positive number of bar")
-    if p > P_MAX_BAR:
-        raise ConditionsError(f"pressure {p:g} bar is above the supported {P_MAX_BAR:g} bar")
+    p = _checked_pressure(pressure_bar)
     if p > psat * (1.0 + band):
         return p / 10.0
     if t >= 0.01:  # IAPWS-95 saturation exists from the triple point up
@@ -709,6 +920,18 @@ def _resolve_pressure(t, pressure_bar):
     if p < psat:
         _boil(t, p, psat)
     return p / 10.0
+
+
+def _checked_pressure(pressure_bar):
+    try:
+        p = float(pressure_bar)
+    except (TypeError, ValueError):
+        raise ConditionsError(f"pressure {pressure_bar!r} is not a number of bar") from None
+    if not math.isfinite(p) or p <= 0.0:
+        raise ConditionsError(f"pressure {p:g} bar must be a positive number of bar")
+    if p > P_MAX_BAR:
+        raise ConditionsError(f"pressure {p:g} bar is above the supported {P_MAX_BAR:g} bar")
+    return p
 
 
 def _boil(t, p, psat):
@@ -789,7 +1012,9 @@ _WATER_AT_25C = WaterProperties(
 def _water_properties_cached(t, p_mpa):
     tk = t + 273.15
     rho, eps, p_used, h, s, x = _iapws_liquid(tk, p_mpa)
-    if x != 0.0:  # IAPWS-95 found vapour: cannot happen above saturation, guard anyway
+    if x != 0.0 and tk <= _T_CRITICAL_K:
+        # IAPWS-95 found vapour: cannot happen above saturation, guard anyway
+        # (above the critical temperature it reports x = 1 for the dense fluid)
         raise ConditionsError(f"water is not liquid at {t:g} °C and {p_used * 10:g} bar")
     rho_r, _, _, h_r, s_r, _ = _iapws_liquid(T_REF, P_REF_BAR / 10.0)
     m = _M_WATER_G / 1000.0  # kg/mol
