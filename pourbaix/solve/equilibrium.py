@@ -1,0 +1,462 @@
+"""Chemical equilibrium under mass balance at fixed pH and potential.
+
+At fixed pH and E the chemical potentials of H+ and e- are set, so every
+species s has a transformed standard energy mu_s (a plane over pH and E, in
+units of RT here). With totals b of the conserved components (metals and
+ligand units) and 1 kg of water, the equilibrium minimises
+
+    G/RT = sum_aq n_s (mu_s + ln gamma_s + ln n_s - 1) + sum_solid n_p mu_p
+
+subject to A^T n = b, n >= 0 (solids at unit activity; Smith & Missen 1982,
+ch. 2; Alberty 2003, ch. 4 for the transformed energies). Its Lagrange dual
+in the free-component potentials lambda (one per component; ln of the
+activity of a free component) is
+
+    maximise  D(lambda) = b . lambda - sum_aq exp(A_s lambda - mu_s - ln gamma_s)
+    subject to A_p lambda <= mu_p  for every solid p,
+
+a smooth concave programme: mass action (ln m_s = A_s lambda - mu_s - ln gamma_s)
+in a basis of free components, with the phase rule as its active set (a solid
+is present exactly where its constraint is active, and its amount is the
+constraint's multiplier; at most one solid per component). It is solved by
+Newton steps on lambda (the logarithms of the free components) with a line
+search (damping) and the classical primal active-set method (Nocedal &
+Wright 2006, §16.5), so it converges from any feasible start; a start that
+breaks a solubility constraint is shifted inside first. Activity
+coefficients follow the ionic strength by an outer fixed-point iteration.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from pourbaix.errors import ConditionsError, PourbaixError
+
+__all__ = [
+    "EquilibriumError",
+    "EquilibriumResult",
+    "solve_equilibrium",
+    "solve_at",
+    "energies_rt",
+    "MASS_TOLERANCE",
+]
+
+MASS_TOLERANCE = 1e-10  # relative mass-balance residual accepted [-]
+_EXP_MAX = 700.0  # exp() overflow guard [-]
+_STEP_MAX = 25.0  # largest change of any ln(free component) in one step [-]
+
+
+class EquilibriumError(PourbaixError, ArithmeticError):
+    """The equilibrium solver did not converge; the message names the point and residual."""
+
+
+@dataclass(frozen=True)
+class EquilibriumResult:
+    """Amounts of every species at one point.
+
+    Attributes
+    ----------
+    amounts : numpy.ndarray, shape (S,)
+        Molality of each dissolved species and amount of each solid, per kg
+        of water [mol/kg].
+    present : numpy.ndarray of bool, shape (S,)
+        Solids present (always False for dissolved species).
+    saturation : numpy.ndarray, shape (S,)
+        log10 saturation index of each solid (0 where present, < 0 where
+        undersaturated); 0 for dissolved species [-].
+    log_free : numpy.ndarray, shape (C,)
+        ln activity of each free component, lambda [-].
+    log_gamma : numpy.ndarray, shape (S,)
+        log10 activity coefficient of each dissolved species [-].
+    ionic_strength : float
+        Ionic strength of the solution [mol/kg].
+    residual : float
+        Largest relative mass-balance residual [-].
+    iterations : int
+        Newton iterations taken (all outer ionic-strength passes).
+    active : tuple of int
+        Rows of the solids present (the active set), for a warm start.
+    """
+
+    amounts: np.ndarray
+    present: np.ndarray
+    saturation: np.ndarray
+    log_free: np.ndarray
+    log_gamma: np.ndarray
+    ionic_strength: float
+    residual: float
+    iterations: int
+    active: tuple
+
+
+def _objective(b, lam, A_aq, mu_aq):
+    with np.errstate(over="ignore", invalid="ignore"):
+        ex = A_aq @ lam - mu_aq
+        if np.any(ex > _EXP_MAX):
+            return -math.inf
+        return float(b @ lam - np.exp(ex).sum())
+
+
+def _feasible_start(lam, A_s, mu_s):
+    """Shift lambda down along (1, ..., 1) until no solid is supersaturated."""
+    if len(mu_s) == 0:
+        return lam
+    excess = A_s @ lam - mu_s
+    worst = np.max(excess / A_s.sum(axis=1))
+    if worst > -1e-9:
+        lam = lam - (worst + 1e-6)
+    return lam
+
+
+def _initial(b, A_aq, mu_aq):
+    """A start where each component's largest single-component species holds its total."""
+    lam = np.zeros(len(b))
+    for j in range(len(b)):
+        only = np.flatnonzero((A_aq[:, j] > 0) & (np.count_nonzero(A_aq, axis=1) == 1))
+        rows = only if len(only) else np.flatnonzero(A_aq[:, j] > 0)
+        if len(rows) == 0:
+            lam[j] = math.log(b[j])
+            continue
+        lam[j] = np.min((mu_aq[rows] + math.log(b[j])) / A_aq[rows, j])
+    return lam
+
+
+def _independent(rows, A_s, candidate):
+    if not rows:
+        return True
+    M = A_s[list(rows) + [candidate]]
+    return np.linalg.matrix_rank(M, tol=1e-9) == len(rows) + 1
+
+
+def _solve_fixed_gamma(b, A_aq, mu_aq, A_s, mu_s, lam, active, max_iter):
+    """Active-set Newton on the concave dual; returns (lam, active, solid amounts, iterations)."""
+    n_c = len(b)
+    lam = np.array(lam, dtype=float)
+    # a start whose dissolved amounts would far exceed the totals moves down first
+    cap = math.log(np.max(b)) + 5.0
+    over = np.max((A_aq @ lam - mu_aq - cap) / A_aq.sum(axis=1))
+    if over > 0:
+        lam = lam - over
+    lam = _feasible_start(lam, A_s, mu_s)
+    # keep only warm-start solids whose constraints are (nearly) active and independent
+    W = []
+    for p in active:
+        if abs(A_s[p] @ lam - mu_s[p]) < 1e-7 and _independent(W, A_s, p):
+            W.append(p)
+    if W:  # put lambda exactly on the warm-start constraints (least change)
+        Aw = A_s[W]
+        lam = lam - Aw.T @ np.linalg.solve(Aw @ Aw.T, Aw @ lam - mu_s[W])
+        if len(mu_s) and np.any(A_s @ lam - mu_s > 1e-9):
+            lam = _feasible_start(lam, A_s, mu_s)
+            W = []
+    scale = np.maximum(b, 1e-300)
+    nu = np.zeros(0)
+    for it in range(1, max_iter + 1):
+        ex = np.minimum(A_aq @ lam - mu_aq, _EXP_MAX)
+        n = np.exp(ex)
+        g = b - A_aq.T @ n
+        M = (A_aq * n[:, None]).T @ A_aq
+        # a component whose dissolved amounts vanish: a small ridge keeps M regular
+        M = M + np.diag(1e-14 * scale + 1e-300)
+        k = len(W)
+        if k:
+            Aw = A_s[W]
+            K = np.zeros((n_c + k, n_c + k))
+            K[:n_c, :n_c] = M
+            K[:n_c, n_c:] = Aw.T
+            K[n_c:, :n_c] = Aw
+            rhs = np.concatenate([g, np.zeros(k)])
+            try:
+                sol = np.linalg.solve(K, rhs)
+            except np.linalg.LinAlgError:
+                sol = np.linalg.lstsq(K, rhs, rcond=None)[0]
+            step, nu = sol[:n_c], sol[n_c:]
+        else:
+            try:
+                step = np.linalg.solve(M, g)
+            except np.linalg.LinAlgError:
+                step = np.linalg.lstsq(M, g, rcond=None)[0]
+            nu = np.zeros(0)
+        resid = g - (A_s[W].T @ nu if k else 0.0)
+        rel = np.max(np.abs(resid) / scale)
+        small = np.max(np.abs(step)) < 1e-10
+        if small or rel < 1e-13:
+            if k and np.min(nu) < -1e-14 * np.max(np.abs(b) @ np.ones(n_c)):
+                W.pop(int(np.argmin(nu)))  # a solid with negative amount leaves (phase rule)
+                continue
+            if rel < MASS_TOLERANCE * 1e-2 or small:
+                return lam, W, nu, it
+        big = np.max(np.abs(step))
+        alpha = min(1.0, _STEP_MAX / big) if big > 0 else 1.0
+        # ratio test: the first solid whose constraint the step would break
+        block = None
+        if len(mu_s):
+            inactive = np.setdiff1d(np.arange(len(mu_s)), W)
+            if len(inactive):
+                rate = A_s[inactive] @ step
+                slack = mu_s[inactive] - A_s[inactive] @ lam
+                with np.errstate(divide="ignore", invalid="ignore"):
+                    t = np.where(rate > 1e-300, np.maximum(slack, 0.0) / rate, np.inf)
+                q = int(np.argmin(t))
+                if t[q] < alpha:
+                    alpha, block = float(t[q]), int(inactive[q])
+        # damping: backtracking (Armijo) on the concave dual, full steps near the solution
+        if big * alpha > 1e-6:
+            d0 = _objective(b, lam, A_aq, mu_aq)
+            slope = float(g @ step)
+            a = alpha
+            while a > 1e-12:
+                if _objective(b, lam + a * step, A_aq, mu_aq) >= d0 + 1e-4 * a * slope:
+                    break
+                a *= 0.5
+            if a < alpha:
+                block = None
+            alpha = a
+        lam = lam + alpha * step
+        if block is not None:
+            if _independent(W, A_s, block):
+                W.append(block)
+            # exactly on the constraint, so rounding does not make it look broken
+            lam = lam + A_s[block] * ((mu_s[block] - A_s[block] @ lam) / (A_s[block] @ A_s[block]))
+    raise EquilibriumError(
+        f"equilibrium did not converge in {max_iter} Newton steps "
+        f"(largest relative mass-balance residual {rel:.1e})"
+    )
+
+
+def solve_equilibrium(
+    counts,
+    energies_rt,
+    aqueous,
+    totals,
+    *,
+    charges=None,
+    log_gamma=None,
+    background_ionic_strength=0.0,
+    start=None,
+    max_iter=200,
+    max_outer=60,
+):
+    """Amounts of all species at equilibrium for given totals (the numerical core).
+
+    Parameters
+    ----------
+    counts : array_like, shape (S, C)
+        Units of each conserved component in each species [-].
+    energies_rt : array_like, shape (S,)
+        Transformed standard energy of each species at the point, mu_s / (R T) [-].
+    aqueous : array_like of bool, shape (S,)
+        True for dissolved species, False for solids (unit activity).
+    totals : array_like, shape (C,)
+        Total of each component [mol/kg]; all > 0.
+    charges : array_like, shape (S,), optional
+        Charges, for the ionic strength [-].
+    log_gamma : callable, optional
+        ``log_gamma(charges, ionic_strength) -> log10 gamma`` for the dissolved
+        species; None for ideal solution (gamma = 1).
+    background_ionic_strength : float
+        Ionic strength of a background electrolyte, added to that of the
+        system's own ions [mol/kg].
+    start : EquilibriumResult, optional
+        A neighbouring solution to start from (warm start).
+    max_iter : int
+        Newton steps allowed per ionic-strength pass.
+    max_outer : int
+        Ionic-strength passes allowed.
+
+    Returns
+    -------
+    EquilibriumResult
+
+    Raises
+    ------
+    ConditionsError
+        For totals not > 0 or a component no species holds.
+    EquilibriumError
+        If the solver does not converge (the message gives the residual).
+
+    Notes
+    -----
+    Mass action in the free-component basis, ln m_s = A_s lambda - mu_s -
+    ln gamma_s, with solids at unit activity where present (A_p lambda =
+    mu_p); see the module docstring. Ionic strength I = I_bg + 1/2 sum m_s z_s^2
+    (Lewis & Randall 1921) over the system's dissolved species; the ions
+    that fix the pH are not counted.
+
+    References
+    ----------
+    Smith, W. R. & Missen, R. W. (1982). *Chemical Reaction Equilibrium
+    Analysis: Theory and Algorithms*. Wiley, ch. 2 and 6.
+    Nocedal, J. & Wright, S. J. (2006). *Numerical Optimization*, 2nd ed.
+    Springer, §16.5 (active-set methods).
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> # M(s) and M+ (aq) with mu(M+) = 0: below saturation everything dissolves
+    >>> r = solve_equilibrium([[1], [1]], [0.0, 5.0], [True, False], [1e-3])
+    >>> float(r.amounts[0])
+    0.001
+    """
+    A = np.atleast_2d(np.asarray(counts, dtype=float))
+    mu = np.asarray(energies_rt, dtype=float)
+    aq = np.asarray(aqueous, dtype=bool)
+    b = np.asarray(totals, dtype=float)
+    if not np.all(np.isfinite(b)) or np.any(b <= 0):
+        raise ConditionsError(f"totals must be numbers > 0 mol/kg, got {list(b)}")
+    held = (A > 0).any(axis=0)
+    if not held.all():
+        raise ConditionsError(f"component(s) {list(np.flatnonzero(~held))} are held by no species")
+    A_aq, mu_aq0 = A[aq], mu[aq]
+    solid_rows = np.flatnonzero(~aq)
+    A_s, mu_s = A[~aq], mu[~aq]
+    z = np.zeros(aq.sum()) if charges is None else np.asarray(charges, dtype=float)[aq]
+    if start is not None:
+        lam = np.asarray(start.log_free, dtype=float)
+        active = [int(np.searchsorted(solid_rows, p)) for p in start.active]
+        ionic = float(start.ionic_strength)
+    else:
+        lam = _initial(b, A_aq, mu_aq0)
+        active = []
+        ionic = float(background_ionic_strength)
+    total_it = 0
+    lg = np.zeros(len(mu_aq0))
+    for _ in range(max_outer):
+        if log_gamma is not None:
+            lg = np.asarray(log_gamma(z, ionic), dtype=float) * np.ones(len(mu_aq0))
+        mu_aq = mu_aq0 + lg * math.log(10.0)
+        lam, W, nu, it = _solve_fixed_gamma(b, A_aq, mu_aq, A_s, mu_s, lam, active, max_iter)
+        total_it += it
+        active = W
+        m = np.exp(np.minimum(A_aq @ lam - mu_aq, _EXP_MAX))
+        new_ionic = float(background_ionic_strength + 0.5 * np.sum(m * z * z))
+        if log_gamma is None or abs(new_ionic - ionic) <= 1e-12 * (1.0 + new_ionic):
+            ionic = new_ionic
+            break
+        ionic = new_ionic
+    else:
+        raise EquilibriumError(
+            f"ionic strength did not settle in {max_outer} passes (last {ionic:.6g} mol/kg)"
+        )
+    amounts = np.zeros(len(mu))
+    amounts[np.flatnonzero(aq)] = m
+    present = np.zeros(len(mu), dtype=bool)
+    if active:
+        amounts[solid_rows[active]] = np.maximum(nu, 0.0)
+        present[solid_rows[active]] = True
+    resid = b - A.T @ amounts
+    rel = float(np.max(np.abs(resid) / b))
+    if rel > MASS_TOLERANCE:
+        raise EquilibriumError(
+            f"equilibrium ended with a relative mass-balance residual of {rel:.1e} "
+            f"(more than {MASS_TOLERANCE:g})"
+        )
+    sat = np.zeros(len(mu))
+    if len(mu_s):
+        sat[solid_rows] = np.minimum((A_s @ lam - mu_s) / math.log(10.0), 0.0)
+        if active:
+            sat[solid_rows[active]] = 0.0
+    lgam = np.zeros(len(mu))
+    lgam[np.flatnonzero(aq)] = lg
+    return EquilibriumResult(
+        amounts=amounts,
+        present=present,
+        saturation=sat,
+        log_free=lam,
+        log_gamma=lgam,
+        ionic_strength=ionic,
+        residual=rel,
+        iterations=total_it,
+        active=tuple(int(solid_rows[p]) for p in active),
+    )
+
+
+def solve_at(
+    system,
+    ph,
+    potential_v,
+    *,
+    activity_model=None,
+    background_ionic_strength=0.0,
+    start=None,
+):
+    """Equilibrium of a :class:`~pourbaix.physics.components.MassBalanceSystem` at one point.
+
+    Parameters
+    ----------
+    system : MassBalanceSystem
+        Species, counts, planes and totals.
+    ph : float
+        pH.
+    potential_v : float
+        Potential [V vs SHE].
+    activity_model : str, optional
+        Activity-coefficient model name (see
+        :data:`pourbaix.physics.solution.ACTIVITY_MODELS`); None for ideal.
+    background_ionic_strength : float
+        Ionic strength of a background electrolyte [mol/kg].
+    start : EquilibriumResult, optional
+        Warm start.
+
+    Returns
+    -------
+    EquilibriumResult
+
+    Raises
+    ------
+    ConditionsError
+        Non-finite pH or potential.
+    EquilibriumError
+        No convergence; the message names the point.
+
+    Examples
+    --------
+    >>> from pourbaix.physics.components import build_system
+    >>> s = build_system("Cu", {"Cu": 1e-3})
+    >>> r = solve_at(s, 2.0, 0.6)
+    >>> s.names[int(r.amounts.argmax())]
+    'Cu^2+'
+    """
+    if not (math.isfinite(float(ph)) and math.isfinite(float(potential_v))):
+        raise ConditionsError(f"pH and potential must be finite, got {ph}, {potential_v}")
+    mu = energies_rt(system, ph, potential_v)
+    lg = None
+    if activity_model is not None:
+        from pourbaix.physics import solution
+
+        t = system.temperature_c
+
+        def lg(z, ionic):
+            return solution.log_gamma(z, ionic, t, model=activity_model)
+
+    try:
+        return solve_equilibrium(
+            system.counts,
+            mu,
+            system.aqueous,
+            system.totals,
+            charges=system.charges,
+            log_gamma=lg,
+            background_ionic_strength=background_ionic_strength,
+            start=start,
+        )
+    except EquilibriumError as exc:
+        raise EquilibriumError(
+            f"at pH {float(ph):g}, E {float(potential_v):g} V vs SHE: {exc}"
+        ) from None
+
+
+def energies_rt(system, ph, potential_v):
+    """mu_s / (R T) of every species of a system at (pH, E vs SHE) [-].
+
+    Notes
+    -----
+    mu_s / RT = phi_s F / (R T) = phi_s ln10 / k_T, with phi_s the plane in
+    volts (:mod:`pourbaix.physics.components`) and k_T = R T ln10 / F.
+    """
+    P = system.planes
+    phi = P[:, 0] + P[:, 1] * float(ph) + P[:, 2] * float(potential_v)
+    return phi * (math.log(10.0) / system.nernst_v)
