@@ -20,12 +20,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from pourbaix.constants import F_KJ as _FARADAY_KJ
 from pourbaix.errors import ConditionsError, OptionError, UnknownSpeciesError
 from pourbaix.physics import energies, thermo
 
-__all__ = ["MassBalanceSystem", "parse_totals", "build_system"]
-
-_FARADAY_KJ = thermo.F / 1000.0  # kJ/(mol V)
+__all__ = ["MassBalanceSystem", "parse_totals", "build_system", "ligand_species"]
 
 
 @dataclass(frozen=True)
@@ -133,7 +132,7 @@ def parse_totals(totals, metals):
     >>> m, [(f.name, t) for f, t in lig]
     ({'Cu': 0.01}, [('NH3', 1.0)])
     """
-    from pourbaix.maps.systems import resolve_ligand
+    from pourbaix.tables.ligands import resolve_ligand
 
     items = totals.items() if isinstance(totals, dict) else list(totals or ())
     metal_totals, ligands, seen = {}, [], set()
@@ -168,6 +167,48 @@ def parse_totals(totals, metals):
             raise OptionError(f"total of {name} given twice")
         seen.add(name)
     return metal_totals, ligands
+
+
+def ligand_species(table, family):
+    """Table rows of a ligand family (its listed species, or every S-H-O ... species, no gases).
+
+    Parameters
+    ----------
+    table : SpeciesTable
+        Species tables.
+    family : LigandFamily
+        The ligand.
+
+    Returns
+    -------
+    list of Species
+    """
+    if family.species is not None:
+        return [table.get(formula, phase) for formula, phase in family.species]
+    allowed = set(family.elements) | {"H", "O"}
+    return [
+        sp
+        for sp in table.species
+        if family.counted in dict(sp.composition)
+        and set(dict(sp.composition)) <= allowed
+        and sp.phase != "g"
+        and not sp.metastable
+    ]
+
+
+def _unit_matrix(families):
+    """Ligand elements and the (elements x families) matrix of ligand units."""
+    els = sorted({el for f, _ in families for el in f.elements})
+    unit = np.zeros((len(els), len(families)))
+    for j, (f, _) in enumerate(families):
+        for el, n in f.unit:
+            unit[els.index(el), j] = n
+    if families and np.linalg.matrix_rank(unit) < len(families):
+        raise OptionError(
+            f"the ligands {' + '.join(f.name for f, _ in families)} share elements in a way that "
+            "does not say which ligand a species carries; give at most two of C, NH3, CN"
+        )
+    return els, unit
 
 
 def _shifted_plane(se, principal, comp, ctx, g_atom):
@@ -247,11 +288,11 @@ def build_system(
     >>> s.components
     ('Cu', 'NH3')
     """
-    from pourbaix.maps.domain_map import _parse_elements, species_id, species_label
-    from pourbaix.maps.systems import _ligand_species, _unit_matrix
+    from pourbaix.conditions import parse_elements
+    from pourbaix.maps.result import species_id, species_label
     from pourbaix.tables.species import load_species
 
-    metals = _parse_elements(metals)
+    metals = parse_elements(metals)
     metal_totals, families = parse_totals(totals, metals)
     missing = [m for m in metals if m not in metal_totals]
     if missing:
@@ -287,7 +328,7 @@ def build_system(
         principal = next(m for m in metals if m in comp)
         rows.append((sp, principal))
     for fam, _ in families:
-        for sp in _ligand_species(table, fam):
+        for sp in ligand_species(table, fam):
             if sp.key not in excluded:
                 rows.append((sp, fam.counted))
     names, labels, counts, planes, aq, charges, used, ses = [], [], [], [], [], [], [], []
