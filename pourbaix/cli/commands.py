@@ -19,7 +19,7 @@ SAFETY = (
     "are for local codes, the applicable standards and licensed practice to decide."
 )
 
-_OUT_KINDS = (".png", ".svg", ".pdf", ".json", ".csv")
+_OUT_KINDS = (".png", ".svg", ".pdf", ".json", ".csv", ".html")
 # names of pourbaix.plot.draw.PALETTES, kept here so that building the parser does not import the drawing
 _PALETTES = ("default", "grey")
 
@@ -250,6 +250,13 @@ def cmd_map(a):
             dmap.to_json(o)
         elif o.suffix.lower() == ".csv":
             dmap.boundaries_csv(o)
+    page_outs = [o for o in outs if o.suffix.lower() == ".html"]
+    if page_outs:
+        from pourbaix.plot.interactive import write_interactive
+
+        maps, parameter = _slider_maps(a, dmap)
+        for o in page_outs:
+            write_interactive(o, maps, parameter=parameter, palette=a.palette)
     if figure_outs:
         from pourbaix.plot import draw
 
@@ -272,6 +279,23 @@ def cmd_map(a):
     if dmap.never_stable:
         print("never stable in the window: " + ", ".join(dmap.never_stable))
     return 0
+
+
+def _slider_maps(a, dmap):
+    """The maps an interactive page steps through: one per --slider-temperature or --slider-activity."""
+    from pourbaix.maps.domain_map import compute_map
+
+    temps, amounts = a.slider_temperature, a.slider_activity
+    if temps and amounts:
+        raise OptionError("give --slider-temperature or --slider-activity, not both")
+    if not temps and not amounts:
+        return [dmap], None
+    kw = _map_kwargs(a)
+    if temps:
+        return [compute_map(a.element, **{**kw, "temperature_c": v}) for v in temps], "temperature"
+    key = "molality" if a.molality is not None else "activity"
+    kw = {k: v for k, v in kw.items() if k not in ("activity", "molality")}
+    return [compute_map(a.element, **{**kw, key: v}) for v in amounts], "activity"
 
 
 def cmd_probe(a):
@@ -444,7 +468,8 @@ def build_parser():
         "--out",
         action="append",
         metavar="FILE",
-        help="output file; extension picks the kind (.png .svg .pdf .json .csv); repeatable",
+        help="output file; extension picks the kind (.png .svg .pdf .json .csv, or .html for an "
+        "interactive page: hover for species, state, margins and the nearest boundary); repeatable",
     )
     m.add_argument(
         "--reading",
@@ -468,6 +493,21 @@ def build_parser():
         type=_positive_float,
         metavar="LEVEL",
         help="draw iso-solubility lines of the total dissolved element [mol/kg] (default levels 1e-2 1e-4 1e-6 1e-8)",
+    )
+    m.add_argument(
+        "--slider-temperature",
+        nargs="+",
+        type=_float,
+        metavar="C",
+        help="for an .html page: maps computed at these temperatures [°C], stepped through by a slider",
+    )
+    m.add_argument(
+        "--slider-activity",
+        nargs="+",
+        type=_positive_float,
+        metavar="A",
+        help="for an .html page: maps at these dissolved activities (or molalities with --molality), "
+        "stepped through by a slider",
     )
     from pourbaix.report.document import add_report_option
 
