@@ -91,8 +91,24 @@ LIGANDS = {
         "cyanide: HCN(aq), CN-",
         "oxidation of cyanide to cyanate is left out as kinetically slow",
     ),
+    "P": LigandFamily(
+        "P",
+        "P",
+        (("P", 1),),
+        (("H3PO4", "aq"), ("H2PO4^-", "aq"), ("HPO4^2-", "aq"), ("PO4^3-", "aq")),
+        "orthophosphate: H3PO4(aq), H2PO4-, HPO4^2-, PO4^3-",
+        "reduction of phosphate to phosphite, hypophosphite or phosphine is left out as kinetically "
+        "inert",
+    ),
+    "F": LigandFamily(
+        "F",
+        "F",
+        (("F", 1),),
+        (("HF", "aq"), ("F^-", "aq"), ("HF2^-", "aq")),
+        "fluoride: HF(aq), F-, HF2-",
+    ),
 }
-LIGAND_ALIASES = {"CO3": "C", "N": "NH3"}
+LIGAND_ALIASES = {"CO3": "C", "N": "NH3", "PO4": "P"}
 
 
 def resolve_ligand(name):

@@ -1,0 +1,711 @@
+"""Write the imported species tables from compilations shipped in registry packages.
+
+Run by maintainers, never at install time::
+
+    python species_data/import/run_import.py            # rewrite species_data/
+    python species_data/import/run_import.py --out DIR  # write into DIR instead
+
+Sources read (both as installed in the environment):
+
+* the LLNL ``thermo.com.V8.R6`` data file shipped by ``pygcc``
+  (``pygcc/default_db/thermo.com.dat``): delG0f, delH0f and S0 of aqueous
+  species and minerals with a reference code per species; the code is mapped
+  to the original publication through the file's own reference list;
+* the CRC Handbook table of standard thermodynamic properties shipped by
+  ``chemicals`` (element entropies where the LLNL file has no native element).
+
+Every row is checked against the file's own log K at 25 C: the Gibbs energy
+implied by the species' reaction (with the file's values of the other species)
+must agree with its printed delG0f within 1 kJ/mol, otherwise the species is
+left out and listed in ``import_report.txt`` (this catches, e.g., a value
+printed in kcal/mol but labelled kJ/mol).
+
+References
+----------
+Delany, J. M.; Lundeen, S. R. The LLNL thermochemical database. LLNL report
+UCRL-21658 (1990).
+Haynes, W. M. (ed.) CRC Handbook of Chemistry and Physics, 95th ed. CRC Press,
+Boca Raton (2014), section 5.
+"""
+
+from __future__ import annotations
+
+import argparse
+import csv
+import io
+import math
+import re
+import sys
+from pathlib import Path
+
+HERE = Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE))
+sys.path.insert(0, str(HERE.parents[1]))
+
+from llnl_file import read_llnl, read_llnl_references  # noqa: E402
+from supcrt_file import read_supcrt, read_supcrt_references  # noqa: E402
+
+from pourbaix.errors import FormulaError  # noqa: E402
+from pourbaix.tables.formula import parse_formula  # noqa: E402
+
+KCAL = 4.184  # thermochemical calorie [J] (exact by definition)
+RT_LN10 = 8.31446261815324 * 298.15 * math.log(10) / 1000  # [kJ/mol] at 25 C (CODATA 2018 R)
+
+HEADER = (
+    "formula,phase,form,dgf_kj_mol,dhf_kj_mol,s_j_molk,cp_j_molk,mk_a_j_molk,mk_b_j_molk2,"
+    "mk_c_jk_mol,mk_tmax_k,metastable,cas,source,note"
+).split(",")
+
+# element -> output table (species_data/<stem>.csv)
+NEW_ELEMENTS = {
+    "As": "arsenic",
+    "Sb": "antimony",
+    "Bi": "bismuth",
+    "Cd": "cadmium",
+    "Hg": "mercury",
+    "Se": "selenium",
+    "Te": "tellurium",
+    "U": "uranium",
+    "V": "vanadium",
+    "W": "tungsten",
+    "Zr": "zirconium",
+    "Nb": "niobium",
+    "Ta": "tantalum",
+    "Pt": "platinum",
+    "Pd": "palladium",
+    "Ga": "gallium",
+    "Ge": "germanium",
+    "In": "indium",
+    "Si": "silicon",
+    "Be": "beryllium",
+    "Ca": "calcium",
+    "Sr": "strontium",
+    "Ba": "barium",
+    "Li": "lithium",
+    "Tl": "thallium",
+    "Ce": "cerium",
+    "La": "lanthanum",
+    "Re": "rhenium",
+    "P": "phosphorus",
+    "F": "fluorine",
+    "K": "potassium",
+    "Na": "sodium",
+}
+# LLNL entries added for metals whose base rows are typed (species_data/<metal>.csv):
+# the basic salts, phosphates and fluoride complexes users asked for.
+ADDITIONS = (
+    "Malachite",
+    "Atacamite",
+    "Antlerite",
+    "Jarosite",
+    "Jarosite-Na",
+    "Pb3(PO4)2",
+    "PbHPO4",
+    "Pyromorphite",
+    "Pyromorphite-OH",
+    "Cu3(PO4)2",
+    "Cu3(PO4)2:3H2O",
+    "PbHPO4(aq)",
+    "PbH2PO4+",
+    "CuHPO4(aq)",
+    "CuH2PO4+",
+    "ZnHPO4(aq)",
+    "ZnH2PO4+",
+    "FeHPO4(aq)",
+    "FeH2PO4+",
+    "FeHPO4+",
+    "FeH2PO4++",
+    "FePO4:2H2O",
+    "PbF+",
+    "PbF2(aq)",
+    "CuF+",
+    "ZnF+",
+    "FeF+",
+    "FeF++",
+    "FeF2+",
+    "AlF++",
+    "AlF2+",
+    "AlF3(aq)",
+    "AlF4-",
+    "MgF+",
+    "NiF+",
+    "CoF+",
+    "MnF+",
+    "Sellaite",
+)
+ADDITIONS_STEM = "additions"
+
+# reference codes that are already keys of the hand-typed tables
+SAME_AS = {"82wag/eva": "NBS82", "89cox/wag": "CODATA89", "76bae/mes": "BM76"}
+# reference codes the LLNL file uses without listing them (citations checked by hand)
+MISSING_REFS = {
+    "93sti/par": (
+        "Stipp, S. L. S.; Parks, G. A.; Nordstrom, D. K.; Leckie, J. O. Solubility-product "
+        "constant and thermodynamic properties for synthetic otavite, CdCO3(s), and aqueous "
+        "association constants for the Cd(II)-CO2-H2O system. Geochim. Cosmochim. Acta 57, "
+        "2699-2713 (1993)."
+    ),
+    "89smi/mar": (
+        "Smith, R. M.; Martell, A. E. Critical Stability Constants, Vol. 6: Second Supplement. "
+        "Plenum Press, New York (1989)."
+    ),
+}
+# native elements the LLNL file lacks: CAS in the CRC table, phase
+CRC_ELEMENTS = {
+    "Bi": ("7440-69-9", "s"),
+    "Ge": ("7440-56-4", "s"),
+    "Nb": ("7440-03-1", "s"),
+    "Ta": ("7440-25-7", "s"),
+    "Te": ("13494-80-9", "s"),
+    "Pt": ("7440-06-4", "s"),
+    "F": ("7782-41-4", "g"),
+}
+# oxides and salts from the CRC table for elements the LLNL file leaves thin: element -> CAS
+CRC_SOLIDS = {
+    "Bi": ("1304-76-3 Bi2O3", "7787-59-9 BiOCl"),
+    "Ga": ("12024-21-4 Ga2O3", "12023-99-3 Ga(OH)3"),
+    "Ge": ("1310-53-8 GeO2", "20619-16-3 GeO"),
+    "In": ("1312-43-2 In2O3",),
+    "Nb": ("1313-96-8 Nb2O5", "12034-59-2 NbO2", "12034-57-0 NbO"),
+    "Ta": ("1314-61-0 Ta2O5",),
+    "Te": ("7446-07-3 TeO2",),
+    "Tl": ("1314-12-1 Tl2O", "12026-06-1 TlOH", "7791-12-0 TlCl"),
+    "W": ("1314-35-8 WO3", "12036-22-5 WO2"),
+    "V": ("1314-62-1 V2O5", "1314-34-7 V2O3", "12035-98-2 VO"),
+    "Sb": ("1314-60-9 Sb2O5",),
+    "Be": ("13327-32-7 Be(OH)2",),
+    "Re": ("1314-68-7 Re2O7",),
+    "Pt": ("12038-20-9 PtS", "12038-21-0 PtS2"),
+}
+# SUPCRT file whose aqueous species fill the gaps the LLNL file leaves
+SUPCRT_FILE = "speq21.dat"
+CRC_KEY = "CRC95"
+CRC_CITATION = (
+    "Haynes, W. M. (ed.) CRC Handbook of Chemistry and Physics, 95th ed. CRC Press, Boca Raton "
+    "(2014), section 5: Standard thermodynamic properties of chemical substances (as shipped in the "
+    "'chemicals' package, Heat Capacity/CRC Standard Thermodynamic Properties of Chemical "
+    "Substances.tsv)."
+)
+LLNL_FILE = "thermo.com.dat"
+_LIGAND_RULES = {
+    "C": lambda text: "CO3" in text,
+    "S": lambda text: "SO4" in text or "O" not in text,
+    "Cl": lambda text: "ClO" not in text,
+    "N": lambda text: "NH3" in text or "NH4" in text,
+    "P": lambda text: "PO4" in text,
+    "F": lambda text: True,
+}
+
+
+def pygcc_db() -> Path:
+    """Folder of pygcc's parameter files."""
+    import pygcc
+
+    return Path(pygcc.__file__).resolve().parent / "default_db"
+
+
+def crc_solids_file() -> Path:
+    """The CRC table of standard thermodynamic properties inside ``chemicals``."""
+    import chemicals
+
+    return (
+        Path(chemicals.__file__).resolve().parent
+        / "Heat Capacity"
+        / "CRC Standard Thermodynamic Properties of Chemical Substances.tsv"
+    )
+
+
+def crc_ions_file() -> Path:
+    """The CRC table of aqueous ions inside ``chemicals``."""
+    import chemicals
+
+    return (
+        Path(chemicals.__file__).resolve().parent
+        / "Electrolytes"
+        / "CRC Thermodynamic Properties of Aqueous Ions.tsv"
+    )
+
+
+def _read_crc_ions(path: Path) -> dict:
+    out = {}
+    with path.open(newline="", encoding="utf-8") as handle:
+        for row in csv.DictReader(handle, delimiter="\t"):
+            m = re.match(r"^(.*?)([+-])(\d*)$", row["Formula"])
+            if not row["Gf(aq)"] or not m:
+                continue
+            try:
+                f = parse_formula(f"{m.group(1)}^{m.group(3)}{m.group(2)}")
+            except FormulaError:
+                continue
+            out[(frozenset(f.composition.items()), f.charge)] = float(row["Gf(aq)"]) / 1000
+    return out
+
+
+def crc_remark(f, phase: str, dgf: float, crc_ions: dict) -> str:
+    """Note text when the CRC ion table (NBS82 values) differs by more than 1 kJ/mol."""
+    ref = crc_ions.get((frozenset(f.composition.items()), f.charge)) if phase == "aq" else None
+    if ref is None or f.charge == 0 or abs(dgf - ref) <= 1.0:
+        return ""
+    return (
+        f"; CRC lists {ref:.1f} (the NBS82 value): compilations differ by {dgf - ref:+.1f} kJ/mol; "
+        "this value is kept so that the element's species come from one compilation"
+    )
+
+
+def balanced(entry, f, by_name) -> bool:
+    """Elements and charge of our formula equal those of the entry's reaction."""
+    if not entry.reaction:
+        return True
+    total: dict[str, float] = {}
+    charge = 0.0
+    for coefficient, name in entry.reaction:
+        other = by_name.get(name)
+        try:
+            text, _, _ = formula_text(name, other.section if other else "aqueous species", "")
+            g = parse_formula(text)
+        except FormulaError:
+            return True  # cannot tell; the log K check still applies
+        for element, count in g.composition.items():
+            total[element] = total.get(element, 0.0) + float(coefficient) * count
+        charge += float(coefficient) * g.charge
+    mine = dict(f.composition)
+    return abs(charge - f.charge) < 1e-6 and all(
+        abs(total.get(el, 0.0) - mine.get(el, 0)) < 1e-6 for el in set(total) | set(mine)
+    )
+
+
+def to_kj(number: str, unit: str) -> float:
+    """Printed energy to kJ/mol (kcal x 4.184 exactly)."""
+    return float(number) * (KCAL if unit.lower().startswith("kcal") else 1.0)
+
+
+def to_j(number: str, unit: str) -> float:
+    """Printed entropy to J/(mol K) (cal x 4.184 exactly)."""
+    return float(number) * (KCAL if unit.lower().startswith("cal") else 1.0)
+
+
+def fmt(value: float | None) -> str:
+    """Fixed text for a number: 6 decimals, trailing zeros dropped."""
+    if value is None:
+        return ""
+    text = f"{value:.6f}".rstrip("0").rstrip(".")
+    return "0" if text in ("-0", "") else text
+
+
+def source_key(code: str) -> str:
+    """Our source key for an LLNL reference code."""
+    return SAME_AS.get(code, code.replace(" ", "-"))
+
+
+def formula_text(name: str, section: str, formula: str) -> tuple[str, str, str]:
+    """Return (our formula text, phase, form) for an LLNL entry, or raise FormulaError."""
+    if section == "minerals":
+        phase = "l" if name.endswith("(l)") else "s"
+        raw = (formula or name).replace(":", "*")
+        if name.endswith("(l)"):
+            raw = name[:-3]
+        f = parse_formula(raw)
+        plain = re.sub(r"[^A-Za-z0-9]", "", name)
+        form = "" if plain == re.sub(r"[^A-Za-z0-9]", "", raw) else name.lower()
+        form = re.sub(r"[^a-z0-9_.\- ]", "-", form).strip("-")
+        return f.text, phase, form
+    text = name[:-4] if name.endswith("(aq)") else name
+    m = re.search(r"\((\d+)([+-])\)$", text)
+    if m:
+        text = f"{text[: m.start()]}^{m.group(1)}{m.group(2)}"
+    else:
+        m = re.search(r"([+-]+)$", text)
+        if m:
+            n = len(m.group(1))
+            text = f"{text[: m.start()]}^{'' if n == 1 else n}{m.group(1)[0]}"
+    return parse_formula(text).text, "aq", ""
+
+
+def _selected(elements: set[str], text: str, target: str) -> bool:
+    others = elements - {"H", "O", target}
+    if target not in elements:
+        return False
+    if target in ("P", "F"):
+        return not others
+    if target in ("K", "Na"):
+        return not others or others <= {"Cl", "F"}
+    return all(el in _LIGAND_RULES and _LIGAND_RULES[el](text) for el in others)
+
+
+def llnl_checks(entries) -> dict[str, float]:
+    """Printed delG0f [kJ/mol] minus the value implied by the entry's own log K at 25 C."""
+    g = {}
+    for e in entries:
+        v = e.value("delG0f")
+        if v:
+            g[e.name] = to_kj(*v)
+    out = {}
+    for e in entries:
+        if e.name not in g or len(e.logk) < 2 or e.logk[1].startswith("500"):
+            continue
+        try:
+            total = sum(float(c) * g[s] for c, s in e.reaction)
+        except KeyError:
+            continue
+        out[e.name] = g[e.name] - (total + RT_LN10 * float(e.logk[1]))
+    return out
+
+
+def relabel_kcal(entry):
+    """The entry with its kJ-labelled energies and J-labelled entropy read as calories."""
+    import dataclasses
+
+    values = tuple(
+        (k, n, u.lower().replace("kj", "kcal").replace("j/", "cal/")) for k, n, u in entry.values
+    )
+    return dataclasses.replace(entry, values=values)
+
+
+def _row(entry, text, phase, form, key, extra_note="", as_printed=None) -> list[str]:
+    g = entry.value("delG0f")
+    h = entry.value("delH0f")
+    s = entry.value("S0")
+    shown = as_printed or entry
+    printed = []
+    for label, k in (("delG0f", "delG0f"), ("delH0f", "delH0f"), ("S0", "S0")):
+        v = shown.value(k)
+        if v:
+            printed.append(f"{label} {v[0]} {v[1]}")
+    note = (
+        f"read by species_data/import from LLNL {LLNL_FILE} entry '{entry.name}' "
+        f"({', '.join(printed)}; reference code {entry.source})" + extra_note
+    )
+    return [
+        text,
+        phase,
+        form,
+        fmt(to_kj(*g)),
+        fmt(to_kj(*h) if h else None),
+        fmt(to_j(*s) if s else None),
+        "",
+        "",
+        "",
+        "",
+        "",
+        "",
+        "",
+        key,
+        note,
+    ]
+
+
+def _existing_keys(species_dir: Path, generated: set[str]) -> set[tuple[str, str]]:
+    keys = set()
+    for f in sorted(species_dir.glob("*.csv")):
+        if f.stem in generated or f.name.startswith("sources") or f.name == "datasets.csv":
+            continue
+        with f.open(newline="", encoding="utf-8") as handle:
+            for row in csv.DictReader(handle):
+                name = parse_formula(row["formula"]).text
+                if row.get("form"):
+                    name += ":" + row["form"]
+                keys.add((name, row["phase"]))
+    return keys
+
+
+def build(species_dir: Path) -> tuple[dict[str, str], str]:
+    """Return {file name: text} of the generated tables and the import report."""
+    path = pygcc_db() / LLNL_FILE
+    entries = read_llnl(path)
+    refs = read_llnl_references(path)
+    mismatch = llnl_checks(entries)
+    report = [f"import report: {path.name}, {len(entries)} entries"]
+    generated = set(NEW_ELEMENTS.values()) | {ADDITIONS_STEM}
+    taken = _existing_keys(species_dir, generated)
+    tables: dict[str, list[list[str]]] = {stem: [] for stem in generated}
+    used_codes: set[str] = set()
+    seen: set[tuple[str, str]] = set()
+    entries_by_name = {e.name: e for e in entries}
+    crc_ions = _read_crc_ions(crc_ions_file())
+
+    def accept(entry, stem) -> None:
+        if entry.section in ("gases", "oxides") or not entry.value("delG0f"):
+            return
+        if entry.source not in refs and entry.source not in SAME_AS | MISSING_REFS.keys():
+            report.append(f"left out {entry.name}: reference code {entry.source!r} not cited")
+            return
+        try:
+            text, phase, form = formula_text(entry.name, entry.section, entry.formula)
+        except FormulaError:
+            report.append(f"left out {entry.name}: formula not read")
+            return
+        f = parse_formula(text)
+        if not balanced(entry, f, entries_by_name):
+            report.append(f"left out {entry.name}: its formula does not balance its reaction")
+            return
+        if abs(f.charge) > 6:
+            report.append(f"left out {entry.name}: charge beyond +-6 (tables keep to +-6)")
+            return
+        if phase == "aq" and entry.charge is not None and f.charge != round(entry.charge):
+            report.append(f"left out {entry.name}: charge {entry.charge} against {f.charge}")
+            return
+        extra = ""
+        printed = entry
+        g = entry.value("delG0f")
+        off = mismatch.get(entry.name, 0.0)
+        if (
+            abs(off) > 1.0
+            and g[1].lower().startswith("kj")
+            and abs(off + float(g[0]) * (KCAL - 1)) < 1.0
+        ):
+            # printed in kcal/mol but labelled kJ/mol: the entry's log K settles it
+            printed = entry
+            entry = relabel_kcal(entry)
+            extra = (
+                "; the file labels these numbers kJ but they are kcal (the entry's own log K at "
+                f"25 C agrees with kcal within {abs(off + float(g[0]) * (KCAL - 1)):.2f} kJ/mol)"
+            )
+            off = 0.0
+        if abs(off) > 1.0:
+            report.append(
+                f"left out {entry.name}: delG0f differs by {mismatch[entry.name]:+.1f} kJ/mol "
+                "from its own log K at 25 C (a defect of the file)"
+            )
+            return
+        key = (text + (":" + form if form else ""), phase)
+        if key in taken or key in seen:
+            return
+        seen.add(key)
+        used_codes.add(entry.source)
+        row = _row(entry, text, phase, form, source_key(entry.source), extra, printed)
+        row[-1] += crc_remark(f, phase, float(row[3]), crc_ions)
+        tables[stem].append(row)
+
+    for symbol, stem in NEW_ELEMENTS.items():
+        for entry in entries:
+            if entry.section in ("gases", "oxides") or not entry.value("delG0f"):
+                continue
+            try:
+                text, _, _ = formula_text(entry.name, entry.section, entry.formula)
+            except FormulaError:
+                continue
+            if _selected(set(parse_formula(text).composition), text, symbol):
+                owner = stem
+                # a species goes to the table of its first new element in NEW_ELEMENTS order
+                accept(entry, owner)
+    by_name = {e.name: e for e in entries}
+    for name in ADDITIONS:
+        if name in by_name:
+            accept(by_name[name], ADDITIONS_STEM)
+        else:
+            report.append(f"addition {name}: not in the file")
+
+    crc = _read_crc(crc_solids_file())
+    sup_path = pygcc_db() / SUPCRT_FILE
+    sup_refs = supcrt_citations(read_supcrt_references(sup_path))
+    sup_used: set[str] = set()
+    for symbol, stem in NEW_ELEMENTS.items():
+        # only the elements the LLNL file leaves thin take SUPCRT aqueous species
+        for entry in read_supcrt_cached(sup_path) if symbol in CRC_SOLIDS else ():
+            if entry.phase != "aq":
+                continue
+            try:
+                text, _, _ = formula_text(entry.name, "aqueous species", "")
+                f = parse_formula(text)
+            except FormulaError:
+                continue
+            if not _selected(set(f.composition), text, symbol) or (text, "aq") in taken | seen:
+                continue
+            if f.charge != entry.charge or dict(f.composition) != dict(entry.composition):
+                continue
+            code = entry.refs[0] if entry.refs else ""
+            if code not in sup_refs or entry.field(0, 0) is None:
+                continue
+            seen.add((text, "aq"))
+            sup_used.add(code)
+            g, h, s_ = (entry.field(0, k) for k in range(3))
+            printed = (
+                f"G {g} cal/mol"
+                + (f", H {h} cal/mol" if h else "")
+                + (f", S {s_} cal/(mol K)" if s_ else "")
+            )
+            tables[stem].append(
+                [
+                    text,
+                    "aq",
+                    "",
+                    fmt(to_kj(g, "kcal") / 1000),
+                    fmt(to_kj(h, "kcal") / 1000 if h else None),
+                    fmt(to_j(s_, "cal") if s_ else None),
+                    "",
+                    "",
+                    "",
+                    "",
+                    "",
+                    "",
+                    "",
+                    supcrt_key(code, sup_refs[code]),
+                    f"read by species_data/import from SUPCRT {SUPCRT_FILE} entry '{entry.name}' ({printed}; "
+                    f"ref {','.join(entry.refs)}); the LLNL file has no value for this species"
+                    + crc_remark(f, "aq", to_kj(g, "kcal") / 1000, crc_ions).replace(
+                        "this value is kept so that the element's species come from one compilation",
+                        "the SUPCRT aqueous set is kept whole (its hydrolysis constants rest on it); "
+                        "the solids of this element come from the CRC table, so solubilities carry "
+                        "this difference",
+                    ),
+                ]
+            )
+        for item in CRC_SOLIDS.get(symbol, ()):
+            cas, text = item.split()
+            text = parse_formula(text).text
+            if (text, "s") in taken | seen:
+                continue
+            row = crc[cas]
+            seen.add((text, "s"))
+            tables[stem].append(
+                [
+                    text,
+                    "s",
+                    "",
+                    fmt(float(row["Gfs"]) / 1000),
+                    fmt(float(row["Hfs"]) / 1000) if row["Hfs"] else "",
+                    row["S0s"],
+                    row["Cps"],
+                    "",
+                    "",
+                    "",
+                    "",
+                    "",
+                    cas,
+                    CRC_KEY,
+                    f"read by species_data/import from the CRC table (CAS {cas}: {row['Chemical']}; "
+                    f"Gf {row['Gfs']} J/mol, Hf {row['Hfs']} J/mol, S0 {row['S0s']} J/(mol K)); "
+                    "the LLNL file has no value for this solid",
+                ]
+            )
+    for symbol, (cas, phase) in CRC_ELEMENTS.items():
+        stem = NEW_ELEMENTS[symbol]
+        text = symbol + ("2" if phase == "g" else "")
+        if (text, phase) in seen:
+            continue
+        row = crc[cas]
+        s_col = "S0g" if phase == "g" else "S0s"
+        tables[stem].insert(
+            0,
+            [
+                text,
+                phase,
+                "",
+                "0",
+                "0",
+                fmt(float(row[s_col])),
+                "",
+                "",
+                "",
+                "",
+                "",
+                "",
+                cas,
+                CRC_KEY,
+                f"element reference state; S read by species_data/import from the CRC table "
+                f"(CAS {cas}: {row['Chemical']}, S0 {row[s_col]} J/(mol K))",
+            ],
+        )
+
+    out: dict[str, str] = {}
+    for stem, rows in tables.items():
+        if not rows:
+            continue
+        rows.sort(key=lambda r: (r[1] != "s" and r[1] != "l", r[0], r[2]))
+        buffer = io.StringIO()
+        writer = csv.writer(buffer, lineterminator="\n")
+        writer.writerow(HEADER)
+        writer.writerows(rows)
+        out[f"{stem}.csv"] = buffer.getvalue()
+    src = io.StringIO()
+    writer = csv.writer(src, lineterminator="\n")
+    writer.writerow(["key", "citation", "note"])
+    for code in sorted(used_codes - set(SAME_AS)):
+        writer.writerow(
+            [
+                source_key(code),
+                refs.get(code) or MISSING_REFS[code],
+                f"reference code {code} of the LLNL thermo.com.V8.R6 database; values read by "
+                "species_data/import/run_import.py",
+            ]
+        )
+    for code in sorted(sup_used):
+        writer.writerow(
+            [
+                supcrt_key(code, sup_refs[code]),
+                sup_refs[code],
+                f"reference {code} of the SUPCRT file {SUPCRT_FILE}; values read by "
+                "species_data/import/run_import.py",
+            ]
+        )
+    writer.writerow([CRC_KEY, CRC_CITATION, "values read by the import"])
+    out["sources_imported.csv"] = src.getvalue()
+    for stem in sorted(tables):
+        report.append(f"{stem}: {len(tables[stem])} rows")
+    return out, "\n".join(report) + "\n"
+
+
+# a SUPCRT citation printed as "in review" and later published (checked by hand)
+SUPCRT_PUBLISHED = {
+    "G12": (
+        "Sassani, D. C.; Shock, E. L. Solubility and transport of platinum-group elements in "
+        "supercritical fluids: summary and estimates of thermodynamic properties for ruthenium, "
+        "rhodium, palladium, and platinum solids, aqueous ions, and aqueous complexes to 1000 C "
+        "and 5 kbar. Geochim. Cosmochim. Acta 62, 2643-2671 (1998)."
+    ),
+}
+
+
+def supcrt_citations(refs: dict[str, str]) -> dict[str, str]:
+    """Codes like ``G7A`` ("corrected values based on G7") carry the cited paper's text."""
+    out = dict(refs)
+    out.update(SUPCRT_PUBLISHED)
+    for code, text in refs.items():
+        m = re.search(r"(?:based on data from|used in)\s+(\w+)", text)
+        if m and m.group(1) in out and not re.search(r"(19|20)\d\d", text):
+            out[code] = f"{out[m.group(1)]} [{text.strip()}]"
+    return out
+
+
+_SUPCRT_CACHE: dict = {}
+
+
+def read_supcrt_cached(path: Path):
+    """Entries of a SUPCRT file, read once."""
+    if path not in _SUPCRT_CACHE:
+        _SUPCRT_CACHE[path] = read_supcrt(path)
+    return _SUPCRT_CACHE[path]
+
+
+def supcrt_key(code: str, citation: str) -> str:
+    """Source key for a SUPCRT reference: first author and year, plus the code."""
+    author = re.match(r"([A-Za-z']+)", citation)
+    year = re.search(r"(19|20)(\d\d)", citation)
+    return (
+        f"{author.group(1).upper() if author else 'SUPCRT'}{year.group(2) if year else ''}-{code}"
+    )
+
+
+def _read_crc(path: Path) -> dict[str, dict[str, str]]:
+    with path.open(newline="", encoding="utf-8") as handle:
+        return {row["CAS"]: row for row in csv.DictReader(handle, delimiter="\t")}
+
+
+def main(argv=None) -> int:
+    """Run the import; write the tables and the report."""
+    parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
+    parser.add_argument("--out", type=Path, default=HERE.parent, help="output folder")
+    args = parser.parse_args(argv)
+    files, report = build(HERE.parent)
+    args.out.mkdir(parents=True, exist_ok=True)
+    for name, text in files.items():
+        (args.out / name).write_text(text, encoding="utf-8")
+    (args.out / "import" if args.out == HERE.parent else args.out).mkdir(exist_ok=True)
+    target = HERE if args.out == HERE.parent else args.out
+    (target / "import_report.txt").write_text(report, encoding="utf-8")
+    print(report, end="")
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
