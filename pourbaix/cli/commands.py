@@ -364,6 +364,11 @@ def cmd_species(a):
     """List the species of a system."""
     from pourbaix.tables.species import load_species
 
+    if not a.element:
+        raise OptionError(
+            "species: name an element, e.g. `pourbaix species Fe`; "
+            "`pourbaix elements` lists every element with data"
+        )
     table = load_species(a.dataset, tuple(a.data))
     for msg in table.overrides:
         print(f"pourbaix: note: {msg}", file=sys.stderr)
@@ -550,7 +555,7 @@ def build_parser():
         description="List the species holding the element(s) with ΔfG°, phase, source and notes.",
         epilog="example: pourbaix species Fe --json",
     )
-    sp.add_argument("element", nargs="+")
+    sp.add_argument("element", nargs="*", help="element symbol(s); `pourbaix elements` lists them")
     sp.add_argument("--dataset", default="default")
     sp.add_argument("--data", action="append", default=[], metavar="FILE")
     sp.add_argument("--json", action="store_true")
@@ -573,7 +578,7 @@ def build_parser():
 
 #: Modules that add command groups: each has ``register(sub, add_conditions, map_kwargs)``.
 #: A new command group is a new module under ``pourbaix/cli/`` and one line here.
-COMMAND_MODULES = ("pourbaix.cli.analyses",)
+COMMAND_MODULES = ("pourbaix.cli.analyses", "pourbaix.cli.data_commands")
 
 
 def _add_analysis_commands(sub):

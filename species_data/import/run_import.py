@@ -137,6 +137,13 @@ ADDITIONS_STEM = "additions"
 
 # reference codes that are already keys of the hand-typed tables
 SAME_AS = {"82wag/eva": "NBS82", "89cox/wag": "CODATA89", "76bae/mes": "BM76"}
+# entries left out by judgement, with the reason written to the report
+EXCLUDE = {
+    "La++": "implies E0(La3+/La2+) = +5.6 V where the divalent lanthanum couple lies near -3 V "
+    "(Bard, Parsons & Jordan 1985): a defect of the derived value",
+    "Ce++": "implies E0(Ce3+/Ce2+) = +6.2 V where the divalent cerium couple lies near -3 V "
+    "(Bard, Parsons & Jordan 1985): a defect of the derived value",
+}
 # reference codes the LLNL file uses without listing them (citations checked by hand)
 MISSING_REFS = {
     "93sti/par": (
@@ -158,6 +165,7 @@ CRC_ELEMENTS = {
     "Ta": ("7440-25-7", "s"),
     "Te": ("13494-80-9", "s"),
     "Pt": ("7440-06-4", "s"),
+    "V": ("7440-62-2", "s"),
     "F": ("7782-41-4", "g"),
 }
 # oxides and salts from the CRC table for elements the LLNL file leaves thin: element -> CAS
@@ -177,6 +185,9 @@ CRC_SOLIDS = {
     "Re": ("1314-68-7 Re2O7",),
     "Pt": ("12038-20-9 PtS", "12038-21-0 PtS2"),
 }
+# elements whose LLNL aqueous species are few; their base ions in the LLNL file are the
+# SUPCRT values (88sho/hel), so SUPCRT hydrolysis and chloride complexes fit them
+SUPCRT_FILLS = set(CRC_SOLIDS) | {"Hg"}
 # SUPCRT file whose aqueous species fill the gaps the LLNL file leaves
 SUPCRT_FILE = "speq21.dat"
 CRC_KEY = "CRC95"
@@ -306,7 +317,8 @@ def formula_text(name: str, section: str, formula: str) -> tuple[str, str, str]:
             raw = name[:-3]
         f = parse_formula(raw)
         plain = re.sub(r"[^A-Za-z0-9]", "", name)
-        form = "" if plain == re.sub(r"[^A-Za-z0-9]", "", raw) else name.lower()
+        same = plain == re.sub(r"[^A-Za-z0-9]", "", raw) or name.endswith("(l)")
+        form = "" if same else name.lower()
         form = re.sub(r"[^a-z0-9_.\- ]", "-", form).strip("-")
         return f.text, phase, form
     text = name[:-4] if name.endswith("(aq)") else name
@@ -426,6 +438,9 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
     def accept(entry, stem) -> None:
         if entry.section in ("gases", "oxides") or not entry.value("delG0f"):
             return
+        if entry.name in EXCLUDE:
+            report.append(f"left out {entry.name}: {EXCLUDE[entry.name]}")
+            return
         if entry.source not in refs and entry.source not in SAME_AS | MISSING_REFS.keys():
             report.append(f"left out {entry.name}: reference code {entry.source!r} not cited")
             return
@@ -501,7 +516,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
     sup_used: set[str] = set()
     for symbol, stem in NEW_ELEMENTS.items():
         # only the elements the LLNL file leaves thin take SUPCRT aqueous species
-        for entry in read_supcrt_cached(sup_path) if symbol in CRC_SOLIDS else ():
+        for entry in read_supcrt_cached(sup_path) if symbol in SUPCRT_FILLS else ():
             if entry.phase != "aq":
                 continue
             try:

@@ -1,0 +1,60 @@
+"""The element coverage of the tables and the `pourbaix elements` command.
+
+Checks:
+- at least 45 elements carry species (issue 13), among them the elements users
+  asked for by name;
+- `pourbaix species` without an element fails with one message naming
+  `pourbaix elements` (exit 2, no traceback);
+- every listed element draws a map whose domains tile the window (areas sum
+  to the window's area: a property of a partition, common practice for maps).
+"""
+
+import json
+
+import pytest
+
+from pourbaix.cli import main
+from pourbaix.cli.data_commands import element_summary
+from pourbaix.tables.species import load_species
+
+ASKED = (
+    "As Sb Bi Cd Hg Se Te U V W Zr Nb Ta Pt Pd Ga In Ge Si Be Ca Sr Ba Li Tl Ce La Re P F"
+).split()
+
+
+def test_at_least_45_elements_and_the_ones_asked_for():
+    summary = element_summary(load_species())
+    names = {e["element"] for e in summary}
+    assert len(names) >= 45
+    assert set(ASKED) <= names
+    for e in summary:
+        assert e["species"] >= e["solids"] + e["aqueous"] > 0
+        assert e["sources"]
+
+
+def test_elements_command_text_and_json(capsys):
+    assert main(["elements"]) == 0
+    out = capsys.readouterr().out
+    assert "elements in data set default" in out
+    assert "\nU " in out and "92gre/fug" in out
+    assert main(["elements", "--json"]) == 0
+    rows = json.loads(capsys.readouterr().out)
+    assert {"element", "species", "sources", "routes", "from_memory"} <= set(rows[0])
+
+
+def test_species_without_element_points_to_elements(capsys):
+    assert main(["species"]) == 2
+    err = capsys.readouterr().err
+    assert "pourbaix elements" in err and "Traceback" not in err
+
+
+@pytest.mark.parametrize("element", ASKED)
+def test_new_element_maps_tile_the_window(element):
+    from pourbaix.maps.domain_map import compute_map
+
+    m = compute_map(element)
+    ph_lo, ph_hi, e_lo, e_hi = m.window
+    window = (ph_hi - ph_lo) * (e_hi - e_lo)
+    total = sum(d.area for d in m.domains)
+    assert total == pytest.approx(window, rel=1e-9)
+    assert len(m.domains) >= 2
