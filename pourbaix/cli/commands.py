@@ -197,6 +197,10 @@ def _map_kwargs(a):
 
 
 def _compute(a):
+    if getattr(a, "balance", False) or getattr(a, "total", None):
+        from pourbaix.cli.balance import compute_balanced_from_args
+
+        return compute_balanced_from_args(a, _map_kwargs(a))
     from pourbaix.maps.domain_map import compute_map
 
     return compute_map(a.element, **_map_kwargs(a))
@@ -243,7 +247,8 @@ def cmd_map(a):
         get_reference(a.second_axis)  # an unknown name fails before any work
     dmap = _compute(a)
     _print_warnings(dmap)
-    _note_missing_solid(dmap)
+    if not getattr(a, "balance", False):
+        _note_missing_solid(dmap)
     figure_outs = [o for o in outs if o.suffix.lower() in (".png", ".svg", ".pdf")]
     for o in outs:
         if o.suffix.lower() == ".json":
@@ -514,8 +519,10 @@ def build_parser():
         help="for an .html page: maps at these dissolved activities (or molalities with --molality), "
         "stepped through by a slider",
     )
+    from pourbaix.cli.balance import add_balance_options
     from pourbaix.report.document import add_report_option
 
+    add_balance_options(m)
     add_report_option(m)
     m.set_defaults(func=cmd_map, window=True)
 
@@ -578,7 +585,7 @@ def build_parser():
 
 #: Modules that add command groups: each has ``register(sub, add_conditions, map_kwargs)``.
 #: A new command group is a new module under ``pourbaix/cli/`` and one line here.
-COMMAND_MODULES = ("pourbaix.cli.analyses", "pourbaix.cli.data_commands")
+COMMAND_MODULES = ("pourbaix.cli.analyses", "pourbaix.cli.data_commands", "pourbaix.cli.balance")
 
 
 def _add_analysis_commands(sub):

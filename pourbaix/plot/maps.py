@@ -165,7 +165,7 @@ def draw_map(
             y=title_y(ax),
         )
         ax.set_title(
-            f"{c.temperature_c:g} °C  ·  {activity_text(c)}",
+            f"{c.temperature_c:g} °C  ·  {activity_text(c, dmap)}",
             loc="right",
             fontsize=9,
             color="#4a4a4a",

@@ -188,8 +188,11 @@ def system_text(c):
     return text
 
 
-def activity_text(c):
-    """Dissolved amount of the map's elements as text."""
+def activity_text(c, dmap=None):
+    """Dissolved amount of the map's elements as text (the totals of a mass-balanced map)."""
+    totals = getattr(dmap, "totals", None)
+    if totals:
+        return "totals: " + ", ".join(f"{k} {power_text(v)}" for k, v in totals.items()) + " mol/kg"
     what = "dissolved " + ", ".join(c.elements)
     if c.molality is not None:
         return f"{what}: {power_text(c.molality)} mol/kg"
@@ -204,9 +207,11 @@ def _caption_parts(c, extra=(), dmap=None):
         system_text(c),
         f"{c.temperature_c:g} °C",
         f"{c.pressure_bar:.4g} bar",
-        activity_text(c),
+        activity_text(c, dmap),
     ]
-    if c.ligands:
+    if getattr(dmap, "criterion", None):
+        first.append("mass balance")
+    elif c.ligands:
         first.append(
             "ligands (total activity): "
             + ", ".join(f"{k} {power_text(v)}" for k, v in c.ligands.items())
@@ -252,6 +257,8 @@ def _caption_parts(c, extra=(), dmap=None):
             else ""
         )
         lines.append([f"Warning: {w}{tail}"])
+    if getattr(dmap, "criterion", None):
+        lines.append([f"Domains: {dmap.criterion}"])
     lines += [[e] for e in extra]
     return lines
 

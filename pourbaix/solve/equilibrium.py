@@ -79,6 +79,9 @@ class EquilibriumResult:
         Newton iterations taken (all outer ionic-strength passes).
     active : tuple of int
         Rows of the solids present (the active set), for a warm start.
+    energies_rt : numpy.ndarray or None, shape (S,)
+        mu_s / RT used, with ln gamma_s for the dissolved species, for the
+        predictor of a warm start [-].
     """
 
     amounts: np.ndarray
@@ -90,6 +93,7 @@ class EquilibriumResult:
     residual: float
     iterations: int
     active: tuple
+    energies_rt: np.ndarray | None = None
 
 
 def _objective(b, lam, A_aq, mu_aq):
@@ -124,6 +128,27 @@ def _initial(b, A_aq, mu_aq):
     return lam
 
 
+def _predict(lam, n_aq, dmu, A_aq, A_s, aq, active, b):
+    """Return lambda + d, with A_W d = dmu_W and d minimising sum_aq n_s (A_s d - dmu_s)^2."""
+    n_c = len(lam)
+    M = (A_aq.T * n_aq) @ A_aq + np.diag(1e-14 * np.maximum(b, 1e-300) + 1e-300)
+    rhs = A_aq.T @ (n_aq * dmu[aq])
+    k = len(active)
+    try:
+        if k:
+            Aw = A_s[active]
+            K = np.zeros((n_c + k, n_c + k))
+            K[:n_c, :n_c] = M
+            K[:n_c, n_c:] = Aw.T
+            K[n_c:, :n_c] = Aw
+            d = np.linalg.solve(K, np.concatenate([rhs, dmu[~aq][active]]))[:n_c]
+        else:
+            d = np.linalg.solve(M, rhs)
+    except np.linalg.LinAlgError:
+        return lam
+    return lam + d if np.all(np.isfinite(d)) else lam
+
+
 def _independent(rows, A_s, candidate):
     if not rows:
         return True
@@ -140,76 +165,92 @@ def _solve_fixed_gamma(b, A_aq, mu_aq, A_s, mu_s, lam, active, max_iter):
     over = np.max((A_aq @ lam - mu_aq - cap) / A_aq.sum(axis=1))
     if over > 0:
         lam = lam - over
-    lam = _feasible_start(lam, A_s, mu_s)
-    # keep only warm-start solids whose constraints are (nearly) active and independent
+    # warm start: keep the previous solids (independent ones) and put lambda on their
+    # constraints; a solid the move supersaturates joins them (least change of lambda)
     W = []
     for p in active:
-        if abs(A_s[p] @ lam - mu_s[p]) < 1e-7 and _independent(W, A_s, p):
+        if _independent(W, A_s, p):
             W.append(p)
-    if W:  # put lambda exactly on the warm-start constraints (least change)
-        Aw = A_s[W]
-        lam = lam - Aw.T @ np.linalg.solve(Aw @ Aw.T, Aw @ lam - mu_s[W])
-        if len(mu_s) and np.any(A_s @ lam - mu_s > 1e-9):
-            lam = _feasible_start(lam, A_s, mu_s)
-            W = []
-    scale = np.maximum(b, 1e-300)
-    nu = np.zeros(0)
-    for it in range(1, max_iter + 1):
-        ex = np.minimum(A_aq @ lam - mu_aq, _EXP_MAX)
-        n = np.exp(ex)
-        g = b - A_aq.T @ n
-        M = (A_aq * n[:, None]).T @ A_aq
-        # a component whose dissolved amounts vanish: a small ridge keeps M regular
-        M = M + np.diag(1e-14 * scale + 1e-300)
-        k = len(W)
-        if k:
+    for _ in range(len(mu_s) + 1):
+        if W:
             Aw = A_s[W]
-            K = np.zeros((n_c + k, n_c + k))
-            K[:n_c, :n_c] = M
-            K[:n_c, n_c:] = Aw.T
-            K[n_c:, :n_c] = Aw
-            rhs = np.concatenate([g, np.zeros(k)])
-            try:
-                sol = np.linalg.solve(K, rhs)
-            except np.linalg.LinAlgError:
-                sol = np.linalg.lstsq(K, rhs, rcond=None)[0]
-            step, nu = sol[:n_c], sol[n_c:]
+            lam = lam - Aw.T @ np.linalg.solve(Aw @ Aw.T, Aw @ lam - mu_s[W])
+        if not len(mu_s):
+            break
+        excess = A_s @ lam - mu_s
+        excess[W] = 0.0
+        worst = int(np.argmax(excess))
+        if excess[worst] <= 1e-9:
+            break
+        if len(W) < len(b) and _independent(W, A_s, worst):
+            W.append(worst)
         else:
-            try:
+            W = []
+            lam = _feasible_start(lam, A_s, mu_s)
+            break
+    else:
+        W = []
+        lam = _feasible_start(lam, A_s, mu_s)
+    scale = np.maximum(b, 1e-300)
+    ridge = np.diag(1e-14 * scale + 1e-300)  # keeps M regular where dissolved amounts vanish
+    A_aq_t = A_aq.T
+    n_s = len(mu_s)
+    nu = np.zeros(0)
+    rel = math.inf
+    for it in range(1, max_iter + 1):
+        ex = A_aq @ lam - mu_aq
+        clipped = ex.max() > _EXP_MAX
+        n = np.exp(np.minimum(ex, _EXP_MAX))
+        g = b - A_aq_t @ n
+        M = (A_aq_t * n) @ A_aq + ridge
+        k = len(W)
+        try:
+            if k:
+                Aw = A_s[W]
+                K = np.zeros((n_c + k, n_c + k))
+                K[:n_c, :n_c] = M
+                K[:n_c, n_c:] = Aw.T
+                K[n_c:, :n_c] = Aw
+                sol = np.linalg.solve(K, np.concatenate([g, np.zeros(k)]))
+                step, nu = sol[:n_c], sol[n_c:]
+                resid = g - Aw.T @ nu
+            else:
                 step = np.linalg.solve(M, g)
-            except np.linalg.LinAlgError:
-                step = np.linalg.lstsq(M, g, rcond=None)[0]
-            nu = np.zeros(0)
-        resid = g - (A_s[W].T @ nu if k else 0.0)
-        rel = np.max(np.abs(resid) / scale)
-        small = np.max(np.abs(step)) < 1e-10
-        if small or rel < 1e-13:
-            if k and np.min(nu) < -1e-14 * np.max(np.abs(b) @ np.ones(n_c)):
+                nu = np.zeros(0)
+                resid = g
+        except np.linalg.LinAlgError:
+            raise EquilibriumError(
+                "singular Newton system (the solids given are degenerate)"
+            ) from None
+        rel = float(np.max(np.abs(resid) / scale))
+        big = float(np.max(np.abs(step)))
+        if big < 1e-10 or rel < MASS_TOLERANCE * 1e-2:
+            if k and nu.min() < -1e-14 * b.sum():
                 W.pop(int(np.argmin(nu)))  # a solid with negative amount leaves (phase rule)
                 continue
-            if rel < MASS_TOLERANCE * 1e-2 or small:
+            # converged: the residual is tiny, or rounding stops the steps with it in bounds
+            if rel < MASS_TOLERANCE * 1e-2 or (big < 1e-14 and rel < MASS_TOLERANCE):
                 return lam, W, nu, it
-        big = np.max(np.abs(step))
         alpha = min(1.0, _STEP_MAX / big) if big > 0 else 1.0
         # ratio test: the first solid whose constraint the step would break
         block = None
-        if len(mu_s):
-            inactive = np.setdiff1d(np.arange(len(mu_s)), W)
-            if len(inactive):
-                rate = A_s[inactive] @ step
-                slack = mu_s[inactive] - A_s[inactive] @ lam
-                with np.errstate(divide="ignore", invalid="ignore"):
-                    t = np.where(rate > 1e-300, np.maximum(slack, 0.0) / rate, np.inf)
-                q = int(np.argmin(t))
-                if t[q] < alpha:
-                    alpha, block = float(t[q]), int(inactive[q])
+        if n_s:
+            rate = A_s @ step
+            slack = np.maximum(mu_s - A_s @ lam, 0.0)
+            rate[W] = 0.0
+            with np.errstate(divide="ignore", invalid="ignore"):
+                t = np.where(rate > 1e-300, slack / rate, np.inf)
+            q = int(np.argmin(t))
+            if t[q] < alpha:
+                alpha, block = float(t[q]), q
         # damping: backtracking (Armijo) on the concave dual, full steps near the solution
-        if big * alpha > 1e-6:
-            d0 = _objective(b, lam, A_aq, mu_aq)
+        if big * alpha > 1e-3:
+            d0 = -math.inf if clipped else float(b @ lam - n.sum())
             slope = float(g @ step)
+            rounding = 1e-13 * (abs(d0) + float(np.abs(b @ lam))) if math.isfinite(d0) else 0.0
             a = alpha
             while a > 1e-12:
-                if _objective(b, lam + a * step, A_aq, mu_aq) >= d0 + 1e-4 * a * slope:
+                if _objective(b, lam + a * step, A_aq, mu_aq) >= d0 + 1e-4 * a * slope - rounding:
                     break
                 a *= 0.5
             if a < alpha:
@@ -318,6 +359,13 @@ def solve_equilibrium(
         lam = np.asarray(start.log_free, dtype=float)
         active = [int(np.searchsorted(solid_rows, p)) for p in start.active]
         ionic = float(start.ionic_strength)
+        old = start.energies_rt
+        if old is not None and len(old) == len(mu):
+            # first-order predictor: the change of lambda that keeps the dissolved amounts
+            # (least squares, weighted by amount) and the solids present (exactly)
+            mu_new = mu.copy()
+            mu_new[aq] += start.log_gamma[aq] * math.log(10.0)
+            lam = _predict(lam, start.amounts[aq], mu_new - old, A_aq, A_s, aq, active, b)
     else:
         lam = _initial(b, A_aq, mu_aq0)
         active = []
@@ -371,6 +419,7 @@ def solve_equilibrium(
         residual=rel,
         iterations=total_it,
         active=tuple(int(solid_rows[p]) for p in active),
+        energies_rt=mu + lgam * math.log(10.0),
     )
 
 
