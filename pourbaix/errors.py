@@ -9,6 +9,7 @@ __all__ = [
     "ConditionsError",
     "OptionError",
     "ExportError",
+    "ReactionError",
 ]
 
 
@@ -64,3 +65,7 @@ class OptionError(PourbaixError, ValueError):
 
 class ExportError(PourbaixError, OSError):
     """An output file could not be written; nothing partial is left behind."""
+
+
+class ReactionError(PourbaixError, ValueError):
+    """A typed half-reaction or cell is malformed or does not balance; the message says where."""

@@ -585,7 +585,12 @@ def build_parser():
 
 #: Modules that add command groups: each has ``register(sub, add_conditions, map_kwargs)``.
 #: A new command group is a new module under ``pourbaix/cli/`` and one line here.
-COMMAND_MODULES = ("pourbaix.cli.analyses", "pourbaix.cli.data_commands", "pourbaix.cli.balance")
+COMMAND_MODULES = (
+    "pourbaix.cli.analyses",
+    "pourbaix.cli.data_commands",
+    "pourbaix.cli.balance",
+    "pourbaix.cli.cells",
+)
 
 
 def _add_analysis_commands(sub):

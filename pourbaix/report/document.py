@@ -37,6 +37,7 @@ __all__ = [
     "write_report",
     "add_report_option",
     "write_report_from_args",
+    "write_document",
 ]
 
 #: Report kinds by file extension.
@@ -1448,12 +1449,7 @@ def write_report(
     ...     "<svg" in path.read_text(encoding="utf-8")
     True
     """
-    from pourbaix.outputs import (
-        all_or_nothing,
-        atomic_write_text,
-        atomic_write_with,
-        check_writable,
-    )
+    from pourbaix.outputs import check_writable
 
     p = Path(path)
     kind = _kind(p)
@@ -1467,10 +1463,23 @@ def write_report(
         reading=reading,
         second_reference=second_reference,
     )
+    _write_doc(p, kind, doc)  # closes the figures
+    return p
+
+
+def _write_doc(p, kind, doc):
+    """Write a built document (Markdown with its figures beside it: all of them or none)."""
+    from pourbaix.outputs import (
+        all_or_nothing,
+        atomic_write_text,
+        atomic_write_with,
+        check_writable,
+    )
+
     try:
         if kind == "html":
             atomic_write_text(p, _render_html(doc))
-            return p
+            return
         names = [f"{p.stem}-figure-{i + 1}.svg" for i in range(len(doc.figures))]
         for name in names:
             check_writable(p.with_name(name))
@@ -1483,9 +1492,67 @@ def write_report(
                     lambda tmp, _svg=svg: Path(tmp).write_text(_svg, encoding="utf-8"),
                 )
             atomic_write_text(p, _render_markdown(doc, names))
-        return p
+        return
     finally:
         _close(doc)
+
+
+def write_document(path, *, title, facts=(), sections=(), cautions=(), figure=None, caption=""):
+    """Write a report that is not about one map (a series, a cell, a couple of metals).
+
+    Parameters
+    ----------
+    path : str or Path
+        ``.html``/``.htm`` (one self-contained page) or ``.md`` (figures as sibling SVG files).
+    title : str
+        Title.
+    facts : sequence of (str, str)
+        Key facts shown under the title.
+    sections : sequence
+        :class:`Section` objects or ``(heading, content)`` pairs (see :func:`write_report`).
+    cautions : sequence of str
+        Cautions shown first; :data:`REPORT_CAUTIONS` are added after them.
+    figure : matplotlib Figure or Axes, optional
+        A main figure (closed after writing).
+    caption : str
+        Its caption.
+
+    Returns
+    -------
+    Path
+        The report's path.
+
+    Raises
+    ------
+    OptionError
+        For an unknown extension or a section the report cannot show.
+    ExportError
+        If the folder is missing or not writable; nothing is left behind.
+    """
+    from pourbaix import __version__
+    from pourbaix.outputs import check_writable
+
+    p = Path(path)
+    kind = _kind(p)
+    check_writable(p)
+    when = _dt.datetime.now(_dt.UTC).strftime("%Y-%m-%d %H:%M UTC")
+    doc = _Doc(
+        title=str(title),
+        subtitle=f"pourbaix {__version__} · {when}",
+        facts=[(str(k), str(v)) for k, v in facts],
+        cautions=(*cautions, *REPORT_CAUTIONS),
+    )
+    if figure is not None:
+        doc.figures.append((_figure_of(figure), caption or title, True))
+    for k, item in enumerate(sections, 1):
+        section = _as_section(item)
+        fig_index = None
+        if section.figure is not None:
+            doc.figures.append((_figure_of(section.figure), section.caption or section.heading, True))
+            fig_index = len(doc.figures) - 1
+        doc.sections.append((f"section-{k}", section, fig_index))
+    _write_doc(p, kind, doc)  # closes the figures
+    return p
 
 
 # ---------------------------------------------------------------------- command line
