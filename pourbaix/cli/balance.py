@@ -150,19 +150,53 @@ def cmd_speciation(a):
         elif kind == ".csv":
             result.to_csv(o)
     figures = [o for o in outs if o.suffix.lower() in (".png", ".svg", ".pdf")]
-    if figures:
-        from pourbaix.plot.draw import save_figure
+    axes = None
+    if figures or a.report:
         from pourbaix.plot.speciation import draw_speciation
 
-        ax = draw_speciation(result, molality=a.molality_axis)
+        axes = draw_speciation(result, molality=a.molality_axis)
+    if figures:
+        from pourbaix.plot.draw import save_figure
+
         for o in figures:
-            save_figure(ax, o)
+            save_figure(axes[0].figure, o)
     for o in outs:
         print(f"wrote {o}")
     if a.report:
+        from pourbaix.maps.balanced import compute_balanced_map
         from pourbaix.report.document import write_report
 
-        write_report(a.report, result.report_sections(), title=result.title)
+        # the report's map: the mass-balanced map of the same system around the sweep
+        if result.axis == "ph":
+            window = dict(
+                ph_range=tuple(a.ph),
+                potential_range_v=(a.potential_at - 1.0, a.potential_at + 1.0),
+            )
+        else:
+            window = dict(
+                ph_range=(a.ph_at - 2.0, a.ph_at + 2.0), potential_range_v=tuple(a.potential_range)
+            )
+        dmap = compute_balanced_map(
+            a.element[0],
+            tuple(a.total),
+            temperature_c=a.temperature,
+            ionic_strength=a.ionic_strength,
+            background=a.background,
+            activity_model=a.activity_model,
+            reference=a.reference,
+            dataset=a.dataset,
+            data_files=tuple(a.data),
+            exclude=tuple(a.exclude),
+            mesh=(16, 16),
+            **window,
+        )
+        write_report(
+            a.report,
+            dmap,
+            title=result.title,
+            extra_sections=[*result.report_sections(), ("Caution", CAUTION)],
+            figure=axes[0].figure,
+        )
         print(f"wrote {a.report}")
     print(result.summary())
     return 0
