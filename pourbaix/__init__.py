@@ -1,9 +1,10 @@
 """Exact potential-pH (Pourbaix) diagrams with traceable thermodynamic data.
 
-The main entry point is :func:`compute_map`, which returns a
-:class:`DomainMap` holding exact stability domains, boundary lines, the water
-window and the data used. Drawing lives in :mod:`pourbaix.plot.draw` and is
-imported only when needed (matplotlib is never imported by computing).
+The main entry point is :func:`~pourbaix.maps.domain_map.compute_map`, which
+returns a :class:`~pourbaix.maps.domain_map.DomainMap` holding exact stability
+domains, boundary lines, the water window and the data used. Drawing lives in
+:mod:`pourbaix.plot.draw` and is imported only when needed (matplotlib is never
+imported by computing).
 
 A map is a thermodynamic prediction: it says nothing about rates, film
 quality, pitting, crevices or microbiology.

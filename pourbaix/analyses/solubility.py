@@ -243,7 +243,7 @@ class SolubilityResult:
         activity is over-saturated (the map shows a solid there), below 0
         under-saturated (the map shows a dissolved species).
     saturation : ndarray of str
-        ``over-saturated``, ``under-saturated`` or ``saturated`` (|index| < 1e-9).
+        ``over-saturated``, ``under-saturated`` or ``saturated`` (abs(index) < 1e-9).
     species : tuple of str
         The dissolved species, in the order of ``species_molality``'s last axis.
     species_labels : tuple of str

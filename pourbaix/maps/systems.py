@@ -350,7 +350,7 @@ class SystemMap(DomainMap):
         -------
         ProbeResult
             Scalars for scalar input, arrays otherwise (see
-            :meth:`DomainMap.probe`).
+            :meth:`~pourbaix.maps.domain_map.DomainMap.probe`).
 
         Notes
         -----

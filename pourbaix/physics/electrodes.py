@@ -159,6 +159,7 @@ def _sce(t):
 
 _NO_COEFF = (15.0, 35.0)  # range for a value without a temperature coefficient (judgement)
 
+#: The reference electrodes by name, each with its potential, temperature model and source.
 REFERENCES: dict[str, ReferenceElectrode] = {
     e.name: e
     for e in (

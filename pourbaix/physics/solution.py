@@ -47,10 +47,10 @@ _LN10 = LN10
 
 # --------------------------------------------------------------------------- salts
 
-# Background salts, taken as fully dissociated into the ions listed (ion,
-# count, charge). Ion pairs (MgSO4°, CaSO4°, NaSO4^-), HSO4^- (pKa2 of H2SO4
-# ≈ 2) and the hydrolysis of CO3^2- and HCO3^- are neglected: the ionic strength
-# is an upper estimate for the sulfates, carbonates and H2SO4.
+#: Background salts, taken as fully dissociated into the ions listed (ion,
+#: count, charge). Ion pairs (MgSO4°, CaSO4°, NaSO4^-), HSO4^- (pKa2 of H2SO4
+#: ≈ 2) and the hydrolysis of CO3^2- and HCO3^- are neglected: the ionic strength
+#: is an upper estimate for the sulfates, carbonates and H2SO4.
 SALTS: dict[str, tuple[tuple[str, int, int], ...]] = {
     "NaCl": (("Na^+", 1, 1), ("Cl^-", 1, -1)),
     "KCl": (("K^+", 1, 1), ("Cl^-", 1, -1)),
@@ -72,9 +72,9 @@ SALTS: dict[str, tuple[tuple[str, int, int], ...]] = {
 }
 _SALT_LOOKUP = {k.lower(): k for k in SALTS}
 
-# Kielland 1937 (J. Am. Chem. Soc. 59, 1675), Table I: ion-size parameter å in
-# ångström for common ions; from memory. Where Kielland gives a range (Na+,
-# HCO3-: 4-4.5) the lower value is used.
+#: Kielland 1937 (J. Am. Chem. Soc. 59, 1675), Table I: ion-size parameter å in
+#: ångström for common ions; from memory. Where Kielland gives a range (Na+,
+#: HCO3-: 4-4.5) the lower value is used.
 KIELLAND_ION_SIZE: dict[str, float] = {
     "H^+": 9.0,
     "Li^+": 6.0,
@@ -125,7 +125,8 @@ KIELLAND_ION_SIZE: dict[str, float] = {
     "SO3^2-": 4.5,
     "S^2-": 5.0,
 }
-DEFAULT_ION_SIZE = 4.0  # [Å] for ions not in the table (common practice)
+#: Ion-size parameter for ions not in the table [Å] (common practice).
+DEFAULT_ION_SIZE = 4.0
 
 
 # --------------------------------------------------------------------------- ionic strength
@@ -525,6 +526,7 @@ def _bdot_model(z, i, t, size, p):
     return -a * z**2 * si / (1.0 + b * size * si) + bdot(t) * i
 
 
+#: The activity models by name, each with its limits of ionic strength and its source.
 ACTIVITY_MODELS: dict[str, ActivityModel] = {
     "davies": ActivityModel(
         "davies",

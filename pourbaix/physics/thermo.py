@@ -796,7 +796,7 @@ def pkw_r11_07(density_kg_m3, temperature_k):
 
     Notes
     -----
-    IAPWS R11-07 (Bandura & Lvov 2006), eq. 1:
+    IAPWS R11-07 (Bandura & Lvov 2006), eq. 1::
 
         pKw = -2 n [log10(1 + Q) - Q/(Q + 1) ρ (β0 + β1/T + β2 ρ)]
               + pKw^G + 2 log10(Mw / 1000),

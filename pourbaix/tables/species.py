@@ -316,7 +316,7 @@ class SpeciesTable:
         ----------
         name : str
             ``"Fe2+"``, ``"Fe^2+"``, ``"Fe^2+(aq)"``, ``"Fe2O3:maghemite"``;
-            any charge notation :func:`parse_formula` accepts. Ambiguous
+            any charge notation :func:`~pourbaix.tables.formula.parse_formula` accepts. Ambiguous
             notations such as ``"NO3-"`` are resolved against the table.
         phase : str, optional
             ``aq``, ``s``, ``l`` or ``g``; needed when the name alone matches
