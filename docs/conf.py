@@ -7,7 +7,8 @@ from pathlib import Path
 HERE = Path(__file__).resolve().parent
 ROOT = HERE.parent
 sys.path.insert(0, str(HERE / "_ext"))
-sys.path.insert(0, str(ROOT))  # the checkout's own package, never an older installed copy
+if (ROOT / "pourbaix" / "__init__.py").exists():
+    sys.path.insert(0, str(ROOT))  # the checkout's own package, never an older installed copy
 os.environ.setdefault("MPLBACKEND", "Agg")
 
 import pourbaix  # noqa: E402

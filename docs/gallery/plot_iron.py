@@ -17,4 +17,5 @@ from pourbaix.plot.draw import draw_map
 iron = pourbaix.compute_map("Fe", activity=1e-6, reference="SCE", ph_range=(0, 14),
                             potential_range_v=(-1.6, 1.4))
 draw_map(iron, reading=True)
-print(iron.probe(8.2, -0.65))
+point = iron.probe(8.2, -0.65)
+print(f"pH 8.2, -0.65 V vs SCE: {point.species} ({point.state}); {point.margin_up_v:.3f} V below {point.neighbour_up}")

@@ -475,9 +475,9 @@ _KEY_GAP_PT = 10.0  # [pt] between the axes decorations and the key, and between
 def needs_numbers(ax, dmap, placer, pending):
     """Whether the labels that do not fit inside should become numbered markers.
 
-    True when they are more than :data:`_MAX_OUTSIDE_LABELS`, or when their
+    True when they are more than ``_MAX_OUTSIDE_LABELS``, or when their
     boxes outside would cover a large share of the axes (one box over
-    :data:`_OUTSIDE_SHARE`, all together over :data:`_OUTSIDE_TOTAL_SHARE`).
+    ``_OUTSIDE_SHARE``, all together over ``_OUTSIDE_TOTAL_SHARE``).
     """
     if len(pending) > _MAX_OUTSIDE_LABELS:
         return True

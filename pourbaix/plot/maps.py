@@ -77,7 +77,7 @@ def draw_map(
     dmap : DomainMap
         The map to draw (potentials vs its own reference).
     ax : matplotlib.axes.Axes, optional
-        Axes to draw onto; a new figure of :data:`FIGURE_SIZE_IN` is made when None.
+        Axes to draw onto; a new figure of :data:`~pourbaix.plot.style.FIGURE_SIZE_IN` is made when None.
     reading : bool
         Add the corrosion reading: hatching on corrosion domains, a legend of
         the three states and the caution that passivation is thermodynamic only.

@@ -1,4 +1,4 @@
-"""Load the phase-transition table of minerals (species_data/transitions/*.csv)."""
+"""Load the phase-transition table of minerals (``species_data/transitions/*.csv``)."""
 
 from __future__ import annotations
 
@@ -19,7 +19,7 @@ __all__ = [
     "read_transitions_file",
 ]
 
-# column -> (unit as written in messages, required)  -- DEVELOPERS.md, "Phase transitions"
+#: Column -> (unit as written in messages, required); DEVELOPERS.md, "Phase transitions".
 TRANSITION_COLUMNS: dict[str, tuple[str, bool]] = {
     "formula": ("text", True),
     "phase": ("aq, s, l or g", True),

@@ -1,4 +1,4 @@
-"""Run the worked examples of the method pages during the build.
+"""Run the worked examples of the method pages (and the export-format page) during the build.
 
 Every ``>>>`` example in ``methods/*.rst`` is executed with :mod:`doctest` (a number
 matches when it agrees to the decimals the page writes, as pytest's ``NUMBER`` option
@@ -65,16 +65,23 @@ def check_page(path):
     return len(test.examples), report
 
 
-def check_all(methods_dir):
-    """Check every method page; return the failure texts (an empty list when all pass)."""
+#: Pages outside ``methods/`` whose examples are checked too.
+OTHER_PAGES = ("format.rst",)
+
+
+def check_all(source_dir):
+    """Check every method page and :data:`OTHER_PAGES`; return the failures (empty when all pass)."""
+    source_dir = Path(source_dir)
     failures = []
-    for page in sorted(Path(methods_dir).glob("*.rst")):
+    for page in sorted((source_dir / "methods").glob("*.rst")):
         if page.name == "index.rst":
             continue
         count, report = check_page(page)
         if count == 0:
             failures.append(f"{page}: a method page needs a worked example (>>> lines)")
         failures += report
+    for name in OTHER_PAGES:
+        failures += check_page(source_dir / name)[1]
     return failures
 
 
@@ -82,8 +89,10 @@ def _on_builder_inited(app):
     from sphinx.util import logging
 
     logger = logging.getLogger(__name__)
+    if os.environ.get("POURBAIX_DOCS_QUICK"):
+        return  # the quick build of the test suite; tests/test_docs.py runs the examples itself
     os.environ.setdefault("MPLBACKEND", "Agg")
-    for text in check_all(Path(app.srcdir) / "methods"):
+    for text in check_all(app.srcdir):
         logger.warning("worked example: %s", text)
 
 
@@ -95,6 +104,6 @@ def setup(app):
 if __name__ == "__main__":
     here = Path(__file__).resolve().parents[2]
     sys.path.insert(0, str(here.parent))
-    problems = check_all(here / "methods")
+    problems = check_all(here)
     print("\n".join(problems) or "all worked examples agree")
     sys.exit(1 if problems else 0)

@@ -26,7 +26,10 @@ from sphinx.util import logging
 
 logger = logging.getLogger(__name__)
 
-_NOT_ELEMENTS = {"H", "O"}  # every species has them; water gets its own page
+_NOT_ELEMENTS = {"H", "O"}
+#: Set this environment variable to skip the gallery scripts and the worked examples (the test
+#: suite's quick check of the docstrings and generated pages; the full build runs everything).
+QUICK_ENV = "POURBAIX_DOCS_QUICK"  # every species has them; water gets its own page
 
 
 def _write(path, text):
@@ -353,6 +356,7 @@ def _run_script(path, images, stem):
     import matplotlib
 
     matplotlib.use("Agg")
+    import matplotlib.figure
     import matplotlib.pyplot as plt
 
     plt.close("all")
@@ -362,13 +366,19 @@ def _run_script(path, images, stem):
     start = time.perf_counter()
     try:
         with contextlib.redirect_stdout(stdout):
-            runpy.run_path(str(path), run_name="__main__")
+            namespace = runpy.run_path(str(path), run_name="__main__")
+        # figures made through pyplot, then any Figure or Axes the script keeps in a variable
+        # (some drawing functions make a bare matplotlib Figure, outside pyplot)
+        figures = [plt.figure(number) for number in plt.get_fignums()]
+        for value in namespace.values():
+            fig = value if isinstance(value, matplotlib.figure.Figure) else getattr(value, "figure", None)
+            if isinstance(fig, matplotlib.figure.Figure) and fig not in figures:
+                figures.append(fig)
         saved = []
-        for k, number in enumerate(plt.get_fignums(), 1):
-            fig = plt.figure(number)
+        for k, fig in enumerate(figures, 1):
             name = f"{stem}_{k}.png"
             images.mkdir(parents=True, exist_ok=True)
-            fig.savefig(images / name, dpi=110)
+            fig.savefig(images / name, dpi=110, facecolor="white", bbox_inches="tight", pad_inches=0.12)
             saved.append(name)
     finally:
         os.chdir(old_cwd)
@@ -433,8 +443,9 @@ def write_gallery(source_dir, out):
                 index.append(lead + "\n")
                 continue
             stem, title, image = card
-            index.append(f"{lead}.. image:: images/{image}\n          :target: {stem}.html\n"
-                         f"          :alt: {title}\n\n       :doc:`{stem}`\n")
+            picture = (f".. image:: images/{image}\n          :target: {stem}.html\n"
+                       f"          :alt: {title}\n\n       ") if image else ""
+            index.append(f"{lead}{picture}:doc:`{stem}`\n")
     _write(gallery / "index.rst", "".join(index))
     for name, seconds in timings:
         logger.info("gallery: %s ran in %.1f s", name, seconds)
@@ -451,7 +462,10 @@ def generate(app):
     write_cli(out)
     write_data(out)
     write_api(out)
-    write_gallery(source, out)
+    if os.environ.get(QUICK_ENV):
+        _write(out / "gallery" / "index.rst", _title("Gallery") + "\n(Not run in a quick build.)\n")
+    else:
+        write_gallery(source, out)
     logger.info("pourbaix_docs: generated pages in %.1f s", time.perf_counter() - started)
 
 
