@@ -63,7 +63,7 @@ def _nernst(temperature_c):
 
 @dataclass(frozen=True)
 class Conditions:
-    """The conditions a map was computed for (build it with :func:`make_conditions`).
+    """The conditions a map was computed for (build it with :func:`~pourbaix.conditions.make_conditions`).
 
     Attributes
     ----------

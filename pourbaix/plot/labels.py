@@ -593,7 +593,7 @@ def number_pending(ax, dmap, placer, pending, polys_px, poles_px):
     left to right). First every number that fits wholly inside its own
     domain goes there (the roomiest free spot, in the usual size and then a
     smaller one); the others become callouts: a circle at a free spot off the
-    boundary lines (:func:`place_callout`) with a leader to the domain's label
+    boundary lines (``place_callout``) with a leader to the domain's label
     point. Numbers never overlap each other, the labels already placed or the
     boundary lines.
     """

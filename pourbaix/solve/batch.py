@@ -168,14 +168,14 @@ def batch_planes(
     Raises
     ------
     PourbaixError
-        As :func:`make_conditions` for bad conditions; ConditionsError when
+        As :func:`~pourbaix.conditions.make_conditions` for bad conditions; ConditionsError when
         the condition arrays do not broadcast.
 
     Notes
     -----
     The conditions are checked and the energies built once per distinct
     (temperature, ionic strength) with the same functions as
-    :func:`compute_map`; each map's activities then enter c0 as
+    :func:`~pourbaix.maps.domain_map.compute_map`; each map's activities then enter c0 as
     (k_T / x_i) log10 a_i (DESIGN §2.1).
 
     Examples
@@ -323,7 +323,7 @@ def stable_at(planes, ph, potential_v):
 
     Notes
     -----
-    As :meth:`DomainMap.probe`: candidate j overtakes the stable d along the
+    As :meth:`~pourbaix.maps.domain_map.DomainMap.probe`: candidate j overtakes the stable d along the
     vertical through the point at E* = −(Δ0 + Δph pH)/Δe, Δ = plane_j − plane_d.
 
     Examples
