@@ -67,7 +67,7 @@ class EnergyContext:
     element_g_kj : dict
         Apparent Gibbs energy of each element's reference species at T [kJ/mol].
     aqueous_route : str
-        ``"hkf"`` or ``"criss-cobble"`` (see :func:`thermo.species_gibbs`).
+        ``"hkf"`` or ``"criss-cobble"`` (see :func:`~pourbaix.physics.thermo.species_gibbs`).
     """
 
     temperature_c: float

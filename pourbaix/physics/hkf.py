@@ -169,7 +169,7 @@ def effective_born_coefficient(omega_ref_cal_mol, charge, g_angstrom):
 
     Notes
     -----
-    ω = η [Z²/re - Z/(3.082 + g)], re = Z²/(ωr/η + Z/3.082) + |Z| g
+    ω = η [Z²/re - Z/(3.082 + g)], re = Z²/(ωr/η + Z/3.082) + abs(Z) g
     (Shock et al. 1992, eqs. 5 and 48-49; η = 1.66027e5 Å cal/mol).
 
     Examples
@@ -291,7 +291,7 @@ def hkf_gibbs(
     -----
     In calories, bars and kelvin (Tanger & Helgeson 1988, eq. 59 as revised
     by Shock et al. 1992, eq. B10; Tr = 298.15 K, Pr = 1 bar, Θ = 228 K,
-    Ψ = 2600 bar):
+    Ψ = 2600 bar)::
 
         G = ΔfG° - S°(T - Tr) - c1[T ln(T/Tr) - T + Tr]
             + a1(P - Pr) + a2 ln((Ψ+P)/(Ψ+Pr))
@@ -365,7 +365,7 @@ def estimate_hkf(s_j_molk, charge, cp_j_molk=None):
       Helgeson & Sverjensky 1989, GCA 53, 2157, eq. 62), bounded to
       ±0.4e5 cal/mol, the span of the inorganic neutral species of the
       SUPCRT-family file. The β_Z values (109030, 213560, 319520, 432920 cal/mol
-      for |Z| = 1-4) are the medians of ω_abs + 1514.4 S° over the ions of the
+      for abs(Z) = 1-4) are the medians of ω_abs + 1514.4 S° over the ions of the
       SUPCRT-family file speq21.dat (shipped with pygcc), whose interquartile
       ranges are ±200 cal/mol: that file's ions follow this correlation.
     - c2 = (0.2037 Cp° - 3.0346) × 10⁴ (Cp° in cal/(mol K); Shock & Helgeson
