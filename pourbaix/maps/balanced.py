@@ -24,6 +24,7 @@ from pourbaix.maps.result import Boundary, Domain, DomainMap, Entry, ProbeResult
 
 __all__ = ["CRITERION", "BalancedMap", "compute_balanced_map", "point_key"]
 
+#: How the domains of a mass-balanced map are defined ({metal} is filled in per map).
 CRITERION = (
     "the solid phases present where the totals saturate them (phase rule); elsewhere the "
     "dissolved species holding the largest share of the dissolved {metal}"
@@ -79,7 +80,7 @@ class BalancedMap(DomainMap):
         Returns
         -------
         ProbeResult
-            As :meth:`DomainMap.probe`; margins are distances to the traced
+            As :meth:`~pourbaix.maps.domain_map.DomainMap.probe`; margins are distances to the traced
             domain edge along E and along pH (``inf`` where that edge is the
             window's: beyond it nothing was traced).
         """
