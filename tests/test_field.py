@@ -92,3 +92,86 @@ def test_table_is_json_ready_and_conditions_clash(fe):
     )
     with pytest.raises(OptionError, match="not both"):
         field_readings(fe, DATA / "references.csv", temperature_c=40)
+
+
+# ---------------------------------------------------------------------- issue 17: what practitioners tripped over
+def test_readings_are_placed_on_the_map_of_their_own_temperature():
+    from pourbaix.analyses.field import place_readings_at_temperature
+
+    data = read_field_csv(DATA / "two_sites.csv")
+    groups = place_readings_at_temperature("Pb", data)
+    # readings at 12.2, 12.4, 15.1, 14.8, 17.9, 18.2 °C: maps at 12, 15 and 18 °C (rounded to 1 °C)
+    assert [d.conditions.temperature_c for d, _ in groups] == [12.0, 15.0, 18.0]
+    for dmap, placed in groups:
+        for r in placed.rows:
+            assert abs(r.temperature_c - dmap.conditions.temperature_c) <= 0.5
+            assert not any("the map is for" in n for n in r.notes)
+    # per reading: one map per exact temperature
+    per = place_readings_at_temperature("Pb", data, group="reading")
+    assert [d.conditions.temperature_c for d, _ in per] == [12.2, 12.4, 14.8, 15.1, 17.9, 18.2]
+    # the old way stays available, and says so for readings far from the map's temperature
+    ((dmap, one),) = place_readings_at_temperature("Pb", data, group="none")
+    assert dmap.conditions.temperature_c == 25.0
+    assert all(any("the map is for 25 °C" in n for n in r.notes) for r in one.rows)
+    with pytest.raises(OptionError, match="valid: temperature, reading, none"):
+        place_readings_at_temperature("Pb", data, group="weekly")
+
+
+def test_a_time_series_is_one_path_per_site():
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from pourbaix.analyses.field import draw_field, place_readings_at_temperature, series_of
+
+    data = read_field_csv(DATA / "two_sites.csv")
+    series = series_of(data)
+    # two sites read in turn: each site's three readings form one series, never joined across sites
+    assert sorted(len(s) for s in series) == [3, 3]
+    for s in series:
+        assert len({data.rows[k].site for k in s}) == 1
+    # a file without a site column whose labels name each reading (week 1, week 2 ...) is one site
+    assert [len(s) for s in series_of(read_field_csv(DATA / "series.csv"))] == [4]
+
+    ((dmap, placed),) = place_readings_at_temperature("Pb", data, group="none")
+    ax = draw_field(dmap, placed)
+    site_of = {(round(r.ph, 6), round(r.potential_v_map, 6)): r.site for r in placed.rows}
+    arrows = [a for a in ax.texts if a.get_gid() == "pourbaix-path"]
+    assert len(arrows) == 4  # 2 arrows per site of 3 readings
+    for a in arrows:
+        start = tuple(round(v, 6) for v in a.xyann)
+        end = tuple(round(v, 6) for v in a.xy)
+        assert site_of[start] == site_of[end], "an arrow joins readings of two sites"
+    # labels of the points hide no other label
+    fig = ax.figure
+    fig.canvas.draw()
+    renderer = fig.canvas.get_renderer()
+    boxes = [
+        (t.get_bbox_patch() or t).get_window_extent(renderer)
+        for t in ax.texts
+        if (t.get_gid() or "").startswith("pourbaix-label") and t.get_text()
+    ]
+    for i, a in enumerate(boxes):
+        for b in boxes[i + 1 :]:
+            assert not (
+                min(a.x1, b.x1) - max(a.x0, b.x0) > 0.5 and min(a.y1, b.y1) - max(a.y0, b.y0) > 0.5
+            )
+    plt.close("all")
+
+
+def test_field_table_keeps_whole_names_and_one_she_column(capsys):
+    from pourbaix.cli.commands import main
+
+    code = main(["field", "Pb", "--readings", str(DATA / "two_sites.csv")])
+    out = capsys.readouterr().out
+    assert code == 0
+    assert "southern booster station" in out  # 24 characters, once cut at 14
+    header = next(line for line in out.splitlines() if line.lstrip().startswith("line"))
+    assert header.count("E SHE [V]") == 1
+    assert "map °C" in header
+    code = main(["field", "Pb", "--readings", str(DATA / "two_sites.csv"), "--reference", "SCE"])
+    header = next(
+        ln for ln in capsys.readouterr().out.splitlines() if ln.lstrip().startswith("line")
+    )
+    assert header.count("E SHE [V]") == 1 and "E SCE [V]" in header

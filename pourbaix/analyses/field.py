@@ -19,10 +19,19 @@ __all__ = [
     "place_readings",
     "field_readings",
     "draw_field",
+    "place_readings_at_temperature",
+    "draw_field_groups",
+    "series_of",
+    "GROUPINGS",
 ]
 
 REQUIRED_COLUMNS = ("ph", "potential_v", "reference")
-OPTIONAL_COLUMNS = ("temperature_c", "label", "time")
+OPTIONAL_COLUMNS = ("temperature_c", "label", "time", "site")
+#: How readings meet maps: one map per temperature of the readings (rounded to
+#: TEMPERATURE_STEP_C), one map per reading, or every reading on the one map.
+GROUPINGS = ("temperature", "reading", "none")
+#: Readings whose temperatures round to the same step share a map [°C].
+TEMPERATURE_STEP_C = 1.0
 #: pH values accepted in a reading [-] (beyond this a number is almost surely a typing slip).
 PH_LIMITS = (-2.0, 16.0)
 #: Temperatures accepted [°C] (the range of the temperature routes).
@@ -52,6 +61,9 @@ class FieldReading:
         Sample name or note ("" if none).
     time : str
         Time stamp as written ("" if none).
+    site : str
+        Where the reading was taken ("" if none); readings of one site over
+        time form one path on the map.
     potential_v_she : float or None
         Potential converted to SHE [V vs SHE] (set when placed on a map).
     potential_v_map : float or None
@@ -75,6 +87,7 @@ class FieldReading:
     temperature_c: float | None = None
     label: str = ""
     time: str = ""
+    site: str = ""
     potential_v_she: float | None = None
     potential_v_map: float | None = None
     species: str | None = None
@@ -204,7 +217,8 @@ def read_field_csv(path):
         CSV with a header row. Required columns: ``ph``, ``potential_v`` (V
         vs the row's electrode) and ``reference`` (e.g. SCE, Cu/CuSO4,
         Ag/AgCl-sat, SHE, RHE); optional ``temperature_c`` [°C], ``label``
-        and ``time`` (ISO 8601 sorts the rows by time). Lines starting with
+        ``time`` (ISO 8601 sorts the rows by time) and ``site`` (readings of
+        one site over time are drawn as one path). Lines starting with
         ``#`` and blank lines are skipped but counted.
 
     Returns
@@ -350,9 +364,17 @@ def read_field_csv(path):
             continue
         label = fields[idx["label"]].strip() if "label" in idx else ""
         time = fields[idx["time"]].strip() if "time" in idx else ""
+        site = fields[idx["site"]].strip() if "site" in idx else ""
         rows.append(
             FieldReading(
-                line=n, ph=ph, potential_v=e, reference=ref, temperature_c=t, label=label, time=time
+                line=n,
+                ph=ph,
+                potential_v=e,
+                reference=ref,
+                temperature_c=t,
+                label=label,
+                time=time,
+                site=site,
             )
         )
     has_time = "time" in idx
@@ -499,8 +521,92 @@ def field_readings(dmap_or_element, path, **conditions):
     return dmap, place_readings(dmap, data)
 
 
+def series_of(data):
+    """Readings of one site over time: lists of row indices, in time order, two or more each.
+
+    Only a file with a ``time`` column has series. Rows are grouped by
+    ``site``; a file without a site column groups them by ``label`` when
+    labels repeat (a site's name written on each reading); otherwise the
+    whole file is one site's series.
+
+    Parameters
+    ----------
+    data : FieldData
+        Readings (placed or not).
+
+    Returns
+    -------
+    list of list of int
+    """
+    if not data.has_time:
+        return []
+    labels = [r.label for r in data.rows]
+    if any(r.site for r in data.rows):
+        keys = [r.site for r in data.rows]
+    elif any(labels.count(x) > 1 for x in labels if x):
+        keys = labels  # a label repeated over time names a site
+    else:
+        keys = [""] * len(data.rows)  # labels name readings (week 1, week 2 ...): one site
+    groups = {}
+    for k, key in enumerate(keys):
+        if key or not any(keys):
+            groups.setdefault(key, []).append(k)
+    return [g for g in groups.values() if len(g) > 1]
+
+
+def place_readings_at_temperature(element, data, *, group="temperature", **conditions):
+    """Place each reading on the map at its own temperature.
+
+    Parameters
+    ----------
+    element : str or sequence of str
+        Element(s) of the maps.
+    data : FieldData
+        From :func:`read_field_csv`.
+    group : {"temperature", "reading", "none"}
+        ``"temperature"``: one map per temperature of the readings, rounded to
+        :data:`TEMPERATURE_STEP_C`; ``"reading"``: each reading classified on
+        the map at its exact temperature; ``"none"``: every reading on the one
+        map of ``conditions`` (readings far from its temperature get a note).
+        Readings without a temperature use the temperature of ``conditions``.
+    **conditions
+        Keyword arguments of :func:`pourbaix.maps.domain_map.compute_map`.
+
+    Returns
+    -------
+    list of (DomainMap, FieldData)
+        One entry per map, coldest first; the rows keep their time order.
+
+    Raises
+    ------
+    OptionError
+        For an unknown ``group``.
+    """
+    from pourbaix.maps.domain_map import compute_map
+
+    if group not in GROUPINGS:
+        raise OptionError(f"unknown grouping {group!r}; valid: {', '.join(GROUPINGS)}")
+    if group == "none" or not data.rows:
+        dmap = compute_map(element, **conditions)
+        return [(dmap, place_readings(dmap, data))]
+    default_t = float(conditions.get("temperature_c", 25.0) or 25.0)
+    keys = []
+    for r in data.rows:
+        t = default_t if r.temperature_c is None else r.temperature_c
+        if group == "temperature":
+            t = round(t / TEMPERATURE_STEP_C) * TEMPERATURE_STEP_C
+        keys.append(float(t))
+    out = []
+    for n, t in enumerate(sorted(set(keys))):
+        rows = [r for r, k in zip(data.rows, keys, strict=True) if k == t]
+        dmap = compute_map(element, **{**conditions, "temperature_c": t})
+        subset = replace(data, rows=rows, problems=list(data.problems) if n == 0 else [])
+        out.append((dmap, place_readings(dmap, subset)))
+    return out
+
+
 def draw_field(dmap, data, ax=None, *, labels=True, reading=False):
-    """Draw the map with the readings on it (a path with arrows for a time series).
+    """Draw the map with the readings on it (one path with arrows per site of a time series).
 
     Parameters
     ----------
@@ -511,7 +617,8 @@ def draw_field(dmap, data, ax=None, *, labels=True, reading=False):
     ax : matplotlib.axes.Axes, optional
         Axes to draw onto; a new figure is made when None.
     labels : bool
-        Label each point with its label (or time, or line number).
+        Label each site's path once (by its site name) and each single
+        reading by its label (or time, or line number).
     reading : bool
         Shade the corrosion reading on the map.
 
@@ -525,16 +632,101 @@ def draw_field(dmap, data, ax=None, *, labels=True, reading=False):
     if len(rows) != len(data.rows):
         raise OptionError("draw_field: place the readings on the map first (place_readings)")
     ax = draw.draw_map(dmap, ax=ax, reading=reading)
-    if rows:
-        text = [r.label or r.time or f"line {r.line}" for r in rows] if labels else None
+    _draw_readings(ax, data, labels)
+    return ax
+
+
+def _draw_readings(ax, data, labels):
+    from pourbaix.plot import draw
+
+    rows = data.rows
+    if not rows:
+        return
+    series = series_of(data)
+    in_series = {k for s in series for k in s}
+    for s in series:
+        # a path per site, labelled once at its last reading
+        name = rows[s[-1]].site or rows[s[-1]].label or "readings"
+        text = [""] * (len(s) - 1) + [name]
         draw.draw_points(
             ax,
-            [r.ph for r in rows],
-            [r.potential_v_map for r in rows],
-            labels=text,
-            path=data.has_time,
+            [rows[k].ph for k in s],
+            [rows[k].potential_v_map for k in s],
+            labels=text if labels else None,
+            path=True,
         )
-    return ax
+    singles = [k for k in range(len(rows)) if k not in in_series]
+    if singles:
+        text = [
+            rows[k].label or rows[k].site or rows[k].time or f"line {rows[k].line}" for k in singles
+        ]
+        draw.draw_points(
+            ax,
+            [rows[k].ph for k in singles],
+            [rows[k].potential_v_map for k in singles],
+            labels=text if labels else None,
+        )
+
+
+def draw_field_groups(groups, *, labels=True, reading=False):
+    """Draw readings placed on the maps of their own temperatures: one panel per map.
+
+    Parameters
+    ----------
+    groups : list of (DomainMap, FieldData)
+        From :func:`place_readings_at_temperature`.
+    labels, reading : bool
+        As for :func:`draw_field`.
+
+    Returns
+    -------
+    matplotlib.figure.Figure or matplotlib.axes.Axes
+        The Axes for one map, else the figure with one panel per map.
+    """
+    from pourbaix.plot import draw
+    from pourbaix.plot.style import FIGURE_SIZE_IN, _pyplot
+
+    if len(groups) == 1:
+        return draw_field(*groups[0], labels=labels, reading=reading)
+    plt = _pyplot()
+    ncol = 2
+    nrow = math.ceil(len(groups) / ncol)
+    w, h = FIGURE_SIZE_IN
+    fig, axes = plt.subplots(nrow, ncol, figsize=(w * ncol, (h + 0.6) * nrow), squeeze=False)
+    fig.subplots_adjust(left=0.06, right=0.97, top=0.95, bottom=0.11, hspace=0.62, wspace=0.22)
+    # every site's whole series, faint on each panel, so a site reads as one path across the maps
+    everything = replace(groups[0][1], rows=[r for _, d in groups for r in d.rows])
+    order = sorted(range(len(everything.rows)), key=lambda k: everything.rows[k].line)
+    everything = replace(everything, rows=[everything.rows[k] for k in order])
+    for ax, (dmap, data) in zip(axes.ravel(), groups, strict=False):
+        draw.draw_map(dmap, ax=ax, reading=reading, caption=False)
+        for s in series_of(everything):
+            ax.plot(
+                [everything.rows[k].ph for k in s],
+                [everything.rows[k].potential_v_map for k in s],
+                color="#8a8a8a",
+                lw=0.9,
+                ls=(0, (3, 2)),
+                marker="D",
+                ms=3.0,
+                mfc="#d9d9d9",
+                mec="#8a8a8a",
+                zorder=9,
+                gid="pourbaix-series-context",
+            )
+        _draw_readings(ax, data, labels)
+    for ax in axes.ravel()[len(groups) :]:
+        ax.set_visible(False)
+    temps = ", ".join(f"{d.conditions.temperature_c:g}" for d, _ in groups)
+    fig.text(
+        0.06,
+        0.015,
+        f"Each reading is placed on the map at its own temperature ({temps} °C); grey dashed: "
+        "each site's whole series. A map is a thermodynamic prediction.",
+        fontsize=8,
+        color="#3a3a3a",
+    )
+    return fig
 
 
 def _fmt(v, unit):
@@ -543,21 +735,47 @@ def _fmt(v, unit):
     return f"{v * 1000:.0f}" if unit == "mV" else f"{v:.2f}"
 
 
-def _table_lines(data):
-    """Plain-text table of placed readings (used by the command line)."""
+def _table_lines(data, groups=None):
+    """Plain-text table of placed readings (used by the command line).
+
+    Names are shown in full (the column is as wide as the longest); the
+    potential vs the map's reference is shown only when that reference is
+    not SHE (it would repeat the SHE column); with readings placed on maps
+    of several temperatures a column gives each reading's map temperature.
+    """
+    parts = groups if groups is not None else [(None, data)]
+    rows = [(d, r) for _, d in parts for r in d.rows]
     ref = data.reference
-    head = (
-        f"{'line':>4}  {'label':<14} {'pH':>5}  {'E meas [V]':>10} {'electrode':<16} {'E SHE [V]':>9}  "
-        f"{'E ' + ref + ' [V]':>12}  {'state':<11} {'species':<24} {'down mV':>7} {'up mV':>6} {'acid pH':>7} {'alk pH':>6}"
+    show_map = ref != "SHE"
+    show_t = groups is not None and len(groups) > 1
+    names = [
+        (r.site + ": " if r.site and r.site != r.label else "") + (r.label or r.time)
+        for _, r in rows
+    ]
+    nw = max([len("label"), *map(len, names)])
+    head = f"{'line':>4}  {'label':<{nw}} {'pH':>5}  {'E meas [V]':>10} {'electrode':<16} {'E SHE [V]':>9}"
+    if show_map:
+        head += f"  {'E ' + ref + ' [V]':>12}"
+    if show_t:
+        head += f"  {'map °C':>6}"
+    head += (
+        f"  {'state':<11} {'species':<24} {'down mV':>7} {'up mV':>6} {'acid pH':>7} {'alk pH':>6}"
     )
     out = [head]
-    for r in data.rows:
-        name = r.label or r.time
-        out.append(
-            f"{r.line:>4}  {name[:14]:<14} {r.ph:5.2f}  {r.potential_v:+10.3f} {r.reference:<16} {r.potential_v_she:+9.3f}  "
-            f"{r.potential_v_map:+12.3f}  {r.state:<11} {r.species[:24]:<24} {_fmt(r.margin_down_v, 'mV'):>7} "
+    for (d, r), name in zip(rows, names, strict=True):
+        line = (
+            f"{r.line:>4}  {name:<{nw}} {r.ph:5.2f}  {r.potential_v:+10.3f} {r.reference:<16} "
+            f"{r.potential_v_she:+9.3f}"
+        )
+        if show_map:
+            line += f"  {r.potential_v_map:+12.3f}"
+        if show_t:
+            line += f"  {d.map_temperature_c:6g}"
+        line += (
+            f"  {r.state:<11} {r.species:<24} {_fmt(r.margin_down_v, 'mV'):>7} "
             f"{_fmt(r.margin_up_v, 'mV'):>6} {_fmt(r.margin_acid_ph, 'pH'):>7} {_fmt(r.margin_alkaline_ph, 'pH'):>6}"
         )
+        out.append(line)
         for note in r.notes:
             out.append(f"{'':>6}note: {note}")
     return out

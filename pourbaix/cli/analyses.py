@@ -338,10 +338,16 @@ def _cmd_window(a, map_kwargs):
 
 # ------------------------------------------------------------------ field
 def _cmd_field(a, map_kwargs):
-    from pourbaix.analyses.field import _table_lines, draw_field, place_readings, read_field_csv
-    from pourbaix.maps.domain_map import compute_map
+    from dataclasses import replace
 
-    outs = _outputs(a.out, (*_FIGURES, ".json", ".csv"))
+    from pourbaix.analyses.field import (
+        _table_lines,
+        draw_field_groups,
+        place_readings_at_temperature,
+        read_field_csv,
+    )
+
+    outs = _outputs(a.out, (*_FIGURES, ".json", ".csv", ".html"))
     _report_target(a)
     data = read_field_csv(a.readings)
     for p in data.problems:
@@ -361,15 +367,21 @@ def _cmd_field(a, map_kwargs):
                 )
             ]
         )
-    dmap = compute_map(a.element, **map_kwargs(a))
+    # readings without a temperature column use --temperature
+    groups = place_readings_at_temperature(a.element, data, group=a.group, **map_kwargs(a))
+    dmap = groups[0][0]
     _notes(dmap)
-    data = place_readings(dmap, data)
+    rows = [r for _, d in groups for r in d.rows]
+    temps = [d.map_temperature_c for _, d in groups for _ in d.rows]
+    notes = [n for _, d in groups for n in d.notes]
+    data = replace(groups[0][1], rows=rows, notes=notes, problems=data.problems)
+    table = [{**row, "map_temperature_c": t} for row, t in zip(data.table(), temps, strict=True)]
     if a.json:
         print(
             json.dumps(
                 {
                     "reference": data.reference,
-                    "readings": data.table(),
+                    "readings": table,
                     "problems": [
                         {"line": p.line, "column": p.column, "reason": p.reason}
                         for p in data.problems
@@ -382,11 +394,17 @@ def _cmd_field(a, map_kwargs):
         )
     else:
         c = dmap.conditions
-        print(
-            f"{len(data.rows)} reading(s) on the {'-'.join(c.elements)} map at {c.temperature_c:g} °C, "
-            f"potentials vs {c.reference}; {len(data.problems)} row(s) skipped"
+        where = (
+            f"the {'-'.join(c.elements)} map at {c.temperature_c:g} °C"
+            if len(groups) == 1
+            else f"the {'-'.join(c.elements)} maps at their own temperatures "
+            f"({', '.join(f'{d.map_temperature_c:g}' for _, d in groups)} °C)"
         )
-        print("\n".join(_table_lines(data)))
+        print(
+            f"{len(data.rows)} reading(s) on {where}, potentials vs {c.reference}; "
+            f"{len(data.problems)} row(s) skipped"
+        )
+        print("\n".join(_table_lines(data, groups)))
         for n in data.notes:
             print(f"note: {n}")
         if any(r.state == "passivation" for r in data.rows):
@@ -398,19 +416,51 @@ def _cmd_field(a, map_kwargs):
             _write_text(
                 o,
                 json.dumps(
-                    {"reference": data.reference, "readings": data.table()},
+                    {"reference": data.reference, "readings": table},
                     indent=2,
                     ensure_ascii=False,
                 )
                 + "\n",
             )
         elif o.suffix.lower() == ".csv":
-            _write_text(o, _csv_text(data.table()))
+            _write_text(o, _csv_text(table))
+        elif o.suffix.lower() == ".html":
+            _field_page(o, groups)
     figs = [o for o in outs if o.suffix.lower() in _FIGURES]
     if figs:
-        _save(draw_field(dmap, data), figs)
+        _save(draw_field_groups(groups), figs)
     _report(a, dmap, data)
     return 0
+
+
+def _field_page(path, groups):
+    """Interactive page of the readings: a slider over the maps of their temperatures."""
+    from pourbaix.plot.interactive import write_interactive
+
+    readings = []
+    for d, data in groups:
+        for r in data.rows:
+            details = {
+                "site": r.site,
+                "time": r.time,
+                "measured": f"{r.potential_v:+.3f} V vs {r.reference}",
+                "temperature": "" if r.temperature_c is None else f"{r.temperature_c:g} °C",
+                "classified on": f"the map at {d.conditions.temperature_c:g} °C: {r.species} ({r.state})",
+                "file line": str(r.line),
+            }
+            readings.append(
+                {
+                    "label": r.label or r.site or r.time or f"line {r.line}",
+                    "ph": r.ph,
+                    "potential_v": r.potential_v_map,
+                    "details": {k: v for k, v in details.items() if v},
+                }
+            )
+    maps = [d for d, _ in groups]
+    write_interactive(
+        path, maps, parameter="temperature" if len(maps) > 1 else None, readings=readings
+    )
+    print(f"wrote {path}")
 
 
 # ------------------------------------------------------------------ reading
@@ -675,14 +725,22 @@ def register(sub, add_conditions, map_kwargs):
         sub,
         "field",
         "place field readings (CSV) on a map",
-        "Read measured points (columns ph, potential_v, reference; optional temperature_c, label, time), convert "
-        "each to SHE and to the map's reference, classify it (species, state, margins) and print a table; bad rows "
-        "are listed with their line numbers and the rest are used.",
+        "Read measured points (columns ph, potential_v, reference; optional temperature_c, label, time, site), "
+        "convert each to SHE and to the map's reference, classify it (species, state, margins) on the map at its "
+        "own temperature and print a table; bad rows are listed with their line numbers and the rest are used. "
+        "With a time column, the readings of each site (or label) are drawn as one path.",
         "pourbaix field Fe --readings loop.csv --reference SCE --out loop.png",
     )
     add_conditions(f)
     f.add_argument("--readings", required=True, metavar="FILE.csv", help="the readings")
-    _add_outputs(f, "figure (.png/.svg/.pdf), .csv or .json; repeatable")
+    f.add_argument(
+        "--group",
+        choices=("temperature", "reading", "none"),
+        default="temperature",
+        help="maps for the readings: one per temperature of the readings, rounded to 1 °C (default); "
+        "one per reading at its exact temperature; or none (all on the map at --temperature)",
+    )
+    _add_outputs(f, "figure (.png/.svg/.pdf), .csv, .json or .html (interactive page); repeatable")
     f.set_defaults(func=lambda a: _cmd_field(a, map_kwargs), window=True)
 
     r = _parser(

@@ -803,20 +803,38 @@ def label_neutral(ax, placer, neutral):
 
 
 def label_points(ax, x, y, labels):
-    """Label field points beside their markers, clear of every text already on the axes."""
+    """Label field points beside their markers, clear of every text and marker already on the axes.
+
+    Each label goes at the first free spot around its point (nearest first);
+    in a crowd it goes to the nearest free spot further off with a leader to
+    its point. An empty label is skipped (its marker still counts).
+    """
     renderer = get_renderer(ax.figure)
     placer = Placer(ax, renderer)
     for t in ax.texts:
         if t.get_visible() and t.get_text():
-            e = t.get_window_extent(renderer)
+            patch = t.get_bbox_patch()
+            if patch is not None:
+                t.update_bbox_position_size(renderer)  # the box is placed at draw time otherwise
+            e = (patch or t).get_window_extent(renderer)
             placer.take((e.x0, e.y0, e.x1, e.y1))
     ppt = placer.px_per_pt
+    r = 4 * ppt
+    for ln in ax.get_lines():  # markers drawn before (other series, earlier calls)
+        if (ln.get_gid() or "") == "pourbaix-points":
+            for p in ax.transData.transform(np.column_stack(ln.get_data())):
+                placer.take((p[0] - r, p[1] - r, p[0] + r, p[1] + r))
+    for ln in ax.get_lines():  # leaders of domain labels: point labels keep off them
+        if (ln.get_gid() or "").startswith("pourbaix-leader:"):
+            xy = ax.transData.transform(np.column_stack(ln.get_data()))
+            placer.leaders.append((tuple(xy[0]), tuple(xy[-1])))
     pts = ax.transData.transform(np.column_stack([x, y]))
     for p in pts:  # the markers themselves
-        r = 4 * ppt
         placer.take((p[0] - r, p[1] - r, p[0] + r, p[1] + r))
     offsets = [(1, 1), (1, -1), (-1, 1), (-1, -1), (1, 0), (-1, 0), (0, 1), (0, -1)]
     for k, (p, text) in enumerate(zip(pts, labels, strict=True)):
+        if not text:
+            continue
         t = ax.text(
             0,
             0,
@@ -830,18 +848,29 @@ def label_points(ax, x, y, labels):
         )
         t.set_bbox(dict(boxstyle="round,pad=0.12", facecolor="white", edgecolor="none", alpha=0.85))
         w, h, ox, oy = placer.measure(t)
-        done = False
+        bpad = 0.12 * 7.5 * ppt
+        w, h = w + 2 * bpad, h + 2 * bpad
+        c = None
         for dist in (5, 9, 14):
             for sx, sy in offsets:
-                c = (p[0] + sx * (dist * ppt + w / 2), p[1] + sy * (dist * ppt + h / 2))
-                box = _boxes_at(c, w, h)
-                if placer.clear(box)[0]:
-                    t.set_position(placer.to_data((c[0] - ox, c[1] - oy)))
-                    placer.take(box[0])
-                    done = True
+                cand = (p[0] + sx * (dist * ppt + w / 2), p[1] + sy * (dist * ppt + h / 2))
+                box = _boxes_at(cand, w, h)
+                if placer.clear(box)[0] and not _segments_hit_boxes(placer.leaders, box)[0]:
+                    c = cand
                     break
-            if done:
+            if c is not None:
                 break
-        if not done:  # crowded: next to the point anyway
+        leader = False
+        if c is None:  # crowded: the nearest free spot further off, with a leader
+            c = place_callout(placer, tuple(p), w, h)
+            leader = c is not None
+        if c is None:
             c = (p[0] + 5 * ppt + w / 2, p[1] + 5 * ppt + h / 2)
-            t.set_position(placer.to_data((c[0] - ox, c[1] - oy)))
+        box = _boxes_at(c, w, h)[0]
+        placer.take(box)
+        t.set_position(placer.to_data((c[0] - ox, c[1] - oy)))
+        if leader:
+            q = _nearest_on_box(p, box)
+            a, b = placer.to_data(p), placer.to_data(q)
+            ax.plot([a[0], b[0]], [a[1], b[1]], color="#3c3c3c", lw=0.6, zorder=10.5,
+                    gid=f"pourbaix-point-leader:{k}")  # fmt: skip
