@@ -31,6 +31,10 @@ def __getattr__(name):
         from pourbaix.maps import domain_map
 
         return getattr(domain_map, name)
+    if name == "sweep":
+        from pourbaix.analyses.sweep import sweep
+
+        return sweep
     if name == "load_species":
         from pourbaix.tables.species import load_species
 

@@ -590,6 +590,7 @@ COMMAND_MODULES = (
     "pourbaix.cli.data_commands",
     "pourbaix.cli.balance",
     "pourbaix.cli.cells",
+    "pourbaix.cli.sweep",
 )
 
 

@@ -1,0 +1,131 @@
+"""Sweeps: 10^4 iron maps batched against one compute_map call each; a Dask LocalCluster against local.
+
+Run:  python benchmarks/bench_sweep.py  [--repeat N] [--maps N] [--skip-cluster]
+
+Prints:
+- maps per second for 10^4 iron maps (100 temperatures x 100 activities):
+  the batch route (planes built once per temperature, then the stable
+  species at a point, domain areas, passive width and solubility of every
+  map in numpy) against the fastest fair baseline, one compute_map call per
+  map with the tables loaded and the answers read from each map (timed on a
+  sample of the grid and scaled), with the ratio; the batch split into
+  building the planes and solving them;
+- the whole sweep a user runs (pourbaix.sweep, 10^4 maps, local processes)
+  and the same sweep with a 2-worker dask.distributed LocalCluster, with
+  the ratio of their times.
+Medians after a warm-up. Target (issue 16): 10^4 iron maps in <= 2 s on
+this 2-core machine. No assertions: this prints figures.
+"""
+
+from __future__ import annotations
+
+import argparse
+import statistics
+import time
+
+import numpy as np
+
+
+def median_time(fn, repeat):
+    fn()  # warm-up
+    ts = []
+    for _ in range(repeat):
+        t = time.perf_counter()
+        fn()
+        ts.append(time.perf_counter() - t)
+    return statistics.median(ts)
+
+
+def main(argv=None):
+    p = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    p.add_argument("--repeat", type=int, default=3, help="runs per figure (median)")
+    p.add_argument("--maps", type=int, default=10_000, help="maps in the grid (a square number)")
+    p.add_argument("--sample", type=int, default=200, help="maps timed one call each")
+    p.add_argument("--skip-cluster", action="store_true", help="leave out the LocalCluster run")
+    a = p.parse_args(argv)
+
+    from pourbaix.maps.compute import compute_map
+    from pourbaix.solve import batch
+    from pourbaix.tables.species import load_species
+
+    table = load_species()
+    side = int(round(a.maps**0.5))
+    temps = np.repeat(np.linspace(25.0, 300.0, side), side)
+    acts = np.tile(np.logspace(-8, -4, side), side)
+    n = len(temps)
+
+    def planes():
+        return batch.batch_planes("Fe", temperature_c=temps, activity=acts, table=table)
+
+    b = planes()
+    passive = np.array(b.states) == "passivation"
+
+    def solve():
+        batch.stable_at(b.planes, [7.0], [-0.5])
+        batch.domain_areas(b.planes, b.window)
+        batch.passive_width(b.planes, passive, 9.0, b.window)
+        batch.solubility_at(b, 7.0, -0.5)
+
+    def whole_batch():
+        nonlocal b
+        b = planes()
+        solve()
+
+    t_planes = median_time(planes, a.repeat)
+    t_solve = median_time(solve, a.repeat)
+    t_batch = median_time(whole_batch, a.repeat)
+
+    rng = np.random.default_rng(16)
+    sample = rng.choice(n, size=min(a.sample, n), replace=False)
+
+    def one_each():
+        for m in sample:
+            dm = compute_map("Fe", temperature_c=temps[m], activity=acts[m], table=table)
+            dm.probe(7.0, -0.5)
+            [d.area for d in dm.domains]
+
+    t_single = median_time(one_each, 1) / len(sample) * n
+    print(
+        f"{n} iron maps ({side} temperatures x {side} activities), answers: species and margins at"
+    )
+    print("(7, -0.5), domain areas, passive width at pH 9, solubility at (7, -0.5)")
+    print(
+        f"  batch:            {t_batch:8.2f} s  {n / t_batch:10.0f} maps/s  "
+        f"(planes {t_planes:.2f} s, solve {t_solve:.2f} s)"
+    )
+    print(
+        f"  one call each:    {t_single:8.2f} s  {n / t_single:10.0f} maps/s  "
+        f"(compute_map + probe + areas, {len(sample)} timed, scaled)"
+    )
+    print(f"  ratio:            {t_single / t_batch:8.1f}x")
+
+    from pourbaix.analyses.sweep import sweep
+
+    kw = dict(
+        temperature_c=f"25:300:{side}",
+        activity=f"1e-8:1e-4:{side}",
+        at=[(7.0, -0.5)],
+        passive_ph=9.0,
+        solubility_at=(7.0, -0.5),
+    )
+    t_local = median_time(lambda: sweep("Fe", **kw), a.repeat)
+    print(f"  pourbaix.sweep, local processes: {t_local:6.2f} s  {n / t_local:10.0f} maps/s")
+    if a.skip_cluster:
+        return
+    from dask.distributed import Client, LocalCluster
+
+    with (
+        LocalCluster(
+            n_workers=2, threads_per_worker=1, processes=True, dashboard_address=None
+        ) as cluster,
+        Client(cluster) as client,
+    ):
+        t_cluster = median_time(lambda: sweep("Fe", client=client, **kw), a.repeat)
+    print(
+        f"  pourbaix.sweep, 2-worker LocalCluster: {t_cluster:6.2f} s  {n / t_cluster:10.0f} maps/s"
+    )
+    print(f"  ratio cluster / local: {t_cluster / t_local:6.2f}")
+
+
+if __name__ == "__main__":
+    main()
