@@ -166,3 +166,81 @@ def test_every_imported_source_key_is_cited():
     for _, row in _imported_rows():
         assert table.sources[row["source"]].strip(), row["source"]
         assert "in review" not in table.sources[row["source"]]
+
+
+def _supcrt_printed(text):
+    """Scaled HKF 7-tuples of aqueous entries and Maier-Kelley triples of minerals (plain scan).
+
+    Printed scale (Johnson, Oelkers & Helgeson 1992, SUPCRT92): a1 x 10, a2 x 10^-2,
+    a4 x 10^-4, c2 x 10^-4, omega x 10^-5 [cal]; Maier-Kelley a, b x 10^3, c x 10^-5 [cal].
+    """
+    lines = text.splitlines()
+    start = next(k for k, t in enumerate(lines) if t.strip() == "aqueous species")
+    hkf, mk, temperatures = set(), set(), set()
+    for k, t in enumerate(lines):
+        if not t.lower().startswith(" ref:"):
+            continue
+        if k > start:
+            a = [float(x) for x in lines[k + 2].split()[:4]]
+            c = [float(x) for x in lines[k + 3].split()[:3]]
+            scaled = (a[0] / 10, a[1] * 100, a[2], a[3] * 1e4, c[0], c[1] * 1e4, c[2] * 1e5)
+            hkf.add(tuple(round(v, 6) for v in scaled))
+        else:
+            j = k + 2
+            while (
+                j < len(lines) and len(lines[j].split()) >= 3 and not lines[j].startswith(" ref:")
+            ):
+                f = lines[j].split()
+                try:
+                    a, b, c = (float(x) for x in f[:3])
+                except ValueError:
+                    break
+                mk.add((round(a * KCAL, 4), round(b * 1e-3 * KCAL, 6), round(c * 1e5 * KCAL)))
+                if len(f) >= 4:
+                    temperatures.add(float(f[3]))
+                j += 1
+    return hkf, mk, temperatures
+
+
+def test_every_imported_parameter_equals_its_source(run_import):
+    text = (run_import.pygcc_db() / "speq21.dat").read_text(encoding="latin-1")
+    hkf, mk, temperatures = _supcrt_printed(text)
+    columns = (
+        "hkf_a1_cal_mol_bar",
+        "hkf_a2_cal_mol",
+        "hkf_a3_cal_k_mol_bar",
+        "hkf_a4_cal_k_mol",
+        "hkf_c1_cal_mol_k",
+        "hkf_c2_cal_k_mol",
+        "hkf_omega_cal_mol",
+    )
+    n_hkf = n_mk = 0
+    for f in sorted(DATA.glob("*.csv")):
+        if f.name.startswith("sources") or f.name == "datasets.csv":
+            continue
+        with f.open(newline="", encoding="utf-8") as handle:
+            for line, row in enumerate(csv.DictReader(handle), start=2):
+                if row.get("hkf_omega_cal_mol"):
+                    got = tuple(round(float(row[c]), 6) for c in columns)
+                    assert got in hkf, f"{f.name}:{line} HKF parameters not in speq21.dat"
+                    n_hkf += 1
+                if row.get("mk_a_j_molk") and row.get("hkf_source"):
+                    got = (
+                        round(float(row["mk_a_j_molk"]), 4),
+                        round(float(row["mk_b_j_molk2"]), 6),
+                        round(float(row["mk_c_jk_mol"])),
+                    )
+                    assert got in mk, f"{f.name}:{line} Maier-Kelley coefficients not in speq21.dat"
+                    n_mk += 1
+    assert n_hkf > 200 and n_mk > 40
+    with (DATA / "transitions" / "phase_transitions.csv").open(encoding="utf-8") as handle:
+        rows = list(csv.DictReader(handle))
+    assert rows
+    for row in rows:
+        assert float(row["t_k"]) in temperatures
+        got = (
+            round(float(row["mk_a_j_molk"]), 4),
+            round(float(row["mk_b_j_molk2"]), 6),
+            round(float(row["mk_c_jk_mol"])),
+        )
+        assert got in mk, row

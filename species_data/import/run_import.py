@@ -14,6 +14,16 @@ Sources read (both as installed in the environment):
 * the CRC Handbook table of standard thermodynamic properties shipped by
   ``chemicals`` (element entropies where the LLNL file has no native element).
 
+Parameters for temperature routes come from the SUPCRT file ``speq21.dat``
+(pygcc): revised-HKF a1-a4, c1, c2, omega of aqueous species (unscaled from the
+printed a1 x 10, a2 x 10^-2, a4 x 10^-4, c2 x 10^-4, omega x 10^-5) and
+Maier-Kelley a, b, c (cal x 4.184; b x 10^-3, c x 10^5), V and phase transitions
+of minerals. They fill only empty columns, in the generated tables and in the
+hand-typed ones; ``hkf_source`` names their publication (for minerals, that of
+the Maier-Kelley and volume values). A transition printed without an enthalpy
+(999999: a change of the Cp fit, such as the magnetite Curie point) is written
+with dh 0.
+
 Every row is checked against the file's own log K at 25 C: the Gibbs energy
 implied by the species' reaction (with the file's values of the other species)
 must agree with its printed delG0f within 1 kJ/mol, otherwise the species is
@@ -43,7 +53,7 @@ sys.path.insert(0, str(HERE))
 sys.path.insert(0, str(HERE.parents[1]))
 
 from llnl_file import read_llnl, read_llnl_references  # noqa: E402
-from supcrt_file import read_supcrt, read_supcrt_references  # noqa: E402
+from supcrt_file import NO_VALUE, read_supcrt, read_supcrt_references  # noqa: E402
 
 from pourbaix.errors import FormulaError  # noqa: E402
 from pourbaix.tables.formula import parse_formula  # noqa: E402
@@ -420,6 +430,162 @@ def _existing_keys(species_dir: Path, generated: set[str]) -> set[tuple[str, str
     return keys
 
 
+HKF_COLUMNS = (
+    "hkf_a1_cal_mol_bar",
+    "hkf_a2_cal_mol",
+    "hkf_a3_cal_k_mol_bar",
+    "hkf_a4_cal_k_mol",
+    "hkf_c1_cal_mol_k",
+    "hkf_c2_cal_k_mol",
+    "hkf_omega_cal_mol",
+)
+PARAMETER_COLUMNS = ("mk_a_j_molk", "mk_b_j_molk2", "mk_c_jk_mol", "mk_tmax_k", "v_cm3_mol")
+PARAMETER_COLUMNS += HKF_COLUMNS + ("hkf_source",)
+# printed scale of the SUPCRT file: true value = printed x factor (Johnson et al. 1992)
+HKF_SCALE = (0.1, 100.0, 1.0, 1.0e4, 1.0, 1.0e4, 1.0e5)
+TRANSITIONS_HEADER = (
+    "formula,phase,form,t_k,dh_j_mol,dv_cm3_mol,dpdt_bar_k,mk_a_j_molk,mk_b_j_molk2,mk_c_jk_mol,"
+    "source"
+).split(",")
+
+
+def _mk(fields) -> tuple[str, str, str]:
+    """Maier-Kelley a, b, c in J units from a printed SUPCRT line (a, b x 10^3, c x 10^-5 cal)."""
+    a, b, c = (float(x) for x in fields[:3])
+    return fmt(a * KCAL), fmt(b * 1e-3 * KCAL), fmt(c * 1e5 * KCAL)
+
+
+def _printed_or_none(text: str | None, scale: float = 1.0) -> float | None:
+    return None if text is None else float(text) * scale
+
+
+class SupcrtIndex:
+    """SUPCRT entries by our formula text (aqueous) and by formula or name (minerals)."""
+
+    def __init__(self, entries, refs):
+        self.refs = refs
+        self.aq: dict[str, object] = {}
+        self.minerals: dict[str, list] = {}
+        self.names: dict[str, object] = {}
+        self.used: set[str] = set()
+        for e in entries:
+            try:
+                if e.phase == "aq":
+                    text = formula_text(e.name, "aqueous species", "")[0]
+                elif e.phase == "s":
+                    text = parse_formula(e.formula_text.replace(":", "*")).text
+                else:
+                    continue
+            except (FormulaError, IndexError):
+                continue
+            if e.phase == "aq":
+                f = parse_formula(text)
+                if f.charge == e.charge and dict(f.composition) == dict(e.composition):
+                    self.aq.setdefault(text, e)
+            else:
+                self.minerals.setdefault(text, []).append(e)
+                self.names.setdefault(e.name.lower(), (text, e))
+
+    def match(self, formula: str, phase: str, form: str):
+        """The SUPCRT entry for a row, or None when there is none or the choice is ambiguous."""
+        if phase == "aq":
+            return self.aq.get(formula)
+        if phase != "s":
+            return None
+        if form:
+            hit = self.names.get(form.lower())
+            return hit[1] if hit and hit[0] == formula else None
+        candidates = self.minerals.get(formula, [])
+        return candidates[0] if len(candidates) == 1 else None
+
+    def key(self, entry) -> str | None:
+        """Our source key for the entry's first reference (recorded as used)."""
+        code = entry.refs[0] if entry.refs and entry.refs[0] else ""
+        if code not in self.refs:
+            return None
+        self.used.add(code)
+        return supcrt_key(code, self.refs[code])
+
+    def columns(self, entry) -> dict[str, str]:
+        """Our parameter columns from a SUPCRT entry (unscaled; J for Maier-Kelley)."""
+        key = self.key(entry)
+        if key is None:
+            return {}
+        if entry.phase == "aq":
+            printed = [entry.field(1, k) for k in range(4)] + [entry.field(2, k) for k in range(3)]
+            if any(v is None for v in printed):
+                return {}
+            out = {
+                c: fmt(float(v) * f)
+                for c, v, f in zip(HKF_COLUMNS, printed, HKF_SCALE, strict=True)
+            }
+            out["hkf_source"] = key
+            return out
+        first = entry.numbers[1]
+        if any(x.startswith(NO_VALUE) for x in first[:3]):
+            return {}
+        a, b, c = _mk(first)
+        tmax = first[3] if entry.transitions else entry.numbers[-1][0]
+        out = {"mk_a_j_molk": a, "mk_b_j_molk2": b, "mk_c_jk_mol": c, "mk_tmax_k": fmt(float(tmax))}
+        v = entry.field(0, 3)
+        if v is not None and float(v) > 0:
+            out["v_cm3_mol"] = fmt(float(v))
+        out["hkf_source"] = key
+        return out
+
+    def transitions(self, entry, formula: str, form: str) -> list[list[str]]:
+        """Rows of the phase-transition table for a mineral with transitions."""
+        rows = []
+        key = self.key(entry)
+        for k in range(entry.transitions):
+            line, above = entry.numbers[1 + k], entry.numbers[2 + k]
+            t, dh, dv, dpdt = (None if x.startswith(NO_VALUE) else x for x in line[3:7])
+            a, b, c = _mk(above)
+            rows.append(
+                [
+                    formula,
+                    "s",
+                    form,
+                    fmt(float(t)),
+                    fmt(float(dh) * KCAL) if dh else "0",
+                    fmt(float(dv)) if dv else "",
+                    fmt(float(dpdt)) if dpdt else "",
+                    a,
+                    b,
+                    c,
+                    key or "",
+                ]
+            )
+        return rows
+
+
+def _with_parameters(header: list[str], rows: list[list[str]], index, transitions) -> tuple:
+    """Header and rows with the parameter columns filled from the SUPCRT index."""
+    cols = list(header)
+    for name in PARAMETER_COLUMNS:
+        if name not in cols:
+            cols.insert(cols.index("metastable"), name)
+    out = []
+    for row in rows:
+        values = dict(zip(header, row, strict=True))
+        try:
+            formula = parse_formula(values["formula"]).text
+        except FormulaError:
+            formula = values["formula"]
+        entry = index.match(formula, values["phase"], values.get("form", ""))
+        if entry is not None:
+            got = index.columns(entry)
+            keep = any(values.get(c) for c in PARAMETER_COLUMNS if c != "hkf_source")
+            if got and not keep:
+                values.update(got)
+                if got.get("hkf_source") == values.get("source"):
+                    values["hkf_source"] = ""
+                if entry.phase == "s" and entry.transitions:
+                    transitions += index.transitions(entry, formula, values.get("form", ""))
+        out.append([values.get(c, "") for c in cols])
+    return cols, out
+
+
 def build(species_dir: Path) -> tuple[dict[str, str], str]:
     """Return {file name: text} of the generated tables and the import report."""
     path = pygcc_db() / LLNL_FILE
@@ -622,16 +788,24 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
             ],
         )
 
+    index = SupcrtIndex(read_supcrt_cached(sup_path), sup_refs)
+    transitions: list[list[str]] = []
     out: dict[str, str] = {}
-    for stem, rows in tables.items():
+    for f in sorted(species_dir.glob("*.csv")):
+        if f.stem in generated or f.name.startswith("sources") or f.name == "datasets.csv":
+            continue
+        # hand-typed tables: only the empty parameter columns are filled, the rest is kept
+        with f.open(newline="", encoding="utf-8") as handle:
+            header, *rows = list(csv.reader(handle))
+        cols, rows = _with_parameters(header, rows, index, transitions)
+        out[f.name] = _csv_text(cols, rows)
+    for stem, rows in sorted(tables.items()):
         if not rows:
             continue
         rows.sort(key=lambda r: (r[1] != "s" and r[1] != "l", r[0], r[2]))
-        buffer = io.StringIO()
-        writer = csv.writer(buffer, lineterminator="\n")
-        writer.writerow(HEADER)
-        writer.writerows(rows)
-        out[f"{stem}.csv"] = buffer.getvalue()
+        cols, rows = _with_parameters(HEADER, rows, index, transitions)
+        out[f"{stem}.csv"] = _csv_text(cols, rows)
+    out["transitions/phase_transitions.csv"] = _csv_text(TRANSITIONS_HEADER, transitions)
     src = io.StringIO()
     writer = csv.writer(src, lineterminator="\n")
     writer.writerow(["key", "citation", "note"])
@@ -644,7 +818,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
                 "species_data/import/run_import.py",
             ]
         )
-    for code in sorted(sup_used):
+    for code in sorted(sup_used | index.used):
         writer.writerow(
             [
                 supcrt_key(code, sup_refs[code]),
@@ -682,6 +856,14 @@ def supcrt_citations(refs: dict[str, str]) -> dict[str, str]:
     return out
 
 
+def _csv_text(header, rows) -> str:
+    buffer = io.StringIO()
+    writer = csv.writer(buffer, lineterminator="\n")
+    writer.writerow(header)
+    writer.writerows(rows)
+    return buffer.getvalue()
+
+
 _SUPCRT_CACHE: dict = {}
 
 
@@ -714,6 +896,7 @@ def main(argv=None) -> int:
     files, report = build(HERE.parent)
     args.out.mkdir(parents=True, exist_ok=True)
     for name, text in files.items():
+        (args.out / name).parent.mkdir(parents=True, exist_ok=True)
         (args.out / name).write_text(text, encoding="utf-8")
     (args.out / "import" if args.out == HERE.parent else args.out).mkdir(exist_ok=True)
     target = HERE if args.out == HERE.parent else args.out
