@@ -778,7 +778,7 @@ class CellResult:
     temperature_c : float
         Temperature [°C].
     reference : str
-        Reference for :meth:`rows` (each electrode's E shown on it too).
+        Reference for :meth:`electrode_rows` (each electrode's E shown on it too).
     reference_offset_v : float
         Its potential vs SHE [V].
     warnings : tuple of str

@@ -44,7 +44,7 @@ def _sub(text):
 
 
 def draw_evans(mixed, ax=None, *, reference="SHE", title=None):
-    """Evans diagram: |current| of each coupled electrode on a log axis against potential.
+    """Evans diagram: each coupled electrode's current magnitude on a log axis against potential.
 
     Parameters
     ----------
