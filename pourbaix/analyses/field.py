@@ -565,7 +565,7 @@ def place_readings_at_temperature(element, data, *, group="temperature", **condi
         From :func:`read_field_csv`.
     group : {"temperature", "reading", "none"}
         ``"temperature"``: one map per temperature of the readings, rounded to
-        :data:`TEMPERATURE_STEP_C`; ``"reading"``: each reading classified on
+        ``TEMPERATURE_STEP_C``; ``"reading"``: each reading classified on
         the map at its exact temperature; ``"none"``: every reading on the one
         map of ``conditions`` (readings far from its temperature get a note).
         Readings without a temperature use the temperature of ``conditions``.
