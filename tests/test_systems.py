@@ -20,7 +20,12 @@ from shapely.geometry import Point
 
 from pourbaix import compute_map
 from pourbaix.errors import ConditionsError, OptionError, PourbaixError, UnknownSpeciesError
-from pourbaix.maps.systems import compute_ligand_map, ratio_combinations, resolve_ligand
+from pourbaix.maps.systems import (
+    compute_ligand_map,
+    compute_system_map,
+    ratio_combinations,
+    resolve_ligand,
+)
 from pourbaix.tables.species import load_species
 
 # CODATA 2018 constants
@@ -617,3 +622,28 @@ def test_copper_carbonate_complexes_carry_copper_in_carbonate_water():
     assert list(r.dominant) == ["CuCO3(aq)", "CuCO3(aq)"]
     plain = solubility(compute_map("Cu", table=TABLE), np.array([7.5, 8.5]), 0.4)
     assert np.all(r.total_molality > 5 * plain.total_molality)
+
+
+# ---------------------------------------------------------------------- issue 17: slow ligand species
+def test_perchlorate_left_out_of_chloride_maps_by_default_and_excludable():
+    # Perchlorate does not form from chloride at ordinary conditions on any practical time scale
+    # (common practice; the data row's note marks it kinetically inert), so it must not split
+    # the domains of a chloride map unless asked for.
+    from pourbaix.cli.commands import main
+
+    plain = compute_system_map(["Cu"], ligands={"Cl": 1.0})
+    assert not any("ClO4^-" in d.species for d in plain.domains)
+    assert any("ClO4^-" in w and "practical time scale" in w for w in plain.warnings)
+    both = compute_system_map(["Cu"], ligands={"Cl": 1.0}, slow_species="include")
+    assert any("ClO4^-" in d.species for d in both.domains)
+    # --exclude works for the ligand's own species (it was refused before)
+    gone = compute_system_map(
+        ["Cu"], ligands={"Cl": 1.0}, slow_species="include", exclude=["ClO4-"]
+    )
+    assert not any("ClO4^-" in d.species for d in gone.domains)
+    no_chlorate = compute_system_map(["Cu"], ligands={"Cl": 1.0}, exclude=["ClO3-"])
+    assert not any("ClO3^-" in d.species for d in no_chlorate.domains)
+    with pytest.raises(OptionError, match="exclude or include"):
+        compute_system_map(["Cu"], ligands={"Cl": 1.0}, slow_species="maybe")
+    assert main(["probe", "Cu", "--ligand", "Cl=1", "--exclude", "ClO4-", "--ph", "3",
+                 "--potential", "1.8", "--include-slow"]) == 0  # fmt: skip

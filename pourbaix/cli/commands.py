@@ -83,7 +83,9 @@ def _add_conditions(p, window=True):
     g = p.add_argument_group("conditions")
     g.add_argument("element", nargs="+", help="element symbol(s); several metals need --ratio")
     g.add_argument(
-        "--activity", type=_positive_float, help="activity of dissolved species (default 1e-6; accepted 1e-20 to 10, noted outside 1e-12 to 1)"
+        "--activity",
+        type=_positive_float,
+        help="activity of dissolved species (default 1e-6; accepted 1e-20 to 10, noted outside 1e-12 to 1)",
     )
     g.add_argument(
         "--molality",
@@ -125,7 +127,12 @@ def _add_conditions(p, window=True):
         metavar="BAR",
         help="pressure [bar], up to 1000 (default 1, or saturation above 100 °C)",
     )
-    g.add_argument("--ionic-strength", type=_float, metavar="I", help="ionic strength [mol/kg], 0 to the model's limit")
+    g.add_argument(
+        "--ionic-strength",
+        type=_float,
+        metavar="I",
+        help="ionic strength [mol/kg], 0 to the model's limit",
+    )
     g.add_argument(
         "--background",
         metavar="SALT=M,...",
@@ -150,9 +157,23 @@ def _add_conditions(p, window=True):
         metavar="NAME=A",
         help="ligand total activity, e.g. S=1e-3, Cl=0.1, CN=1e-3 (repeatable, each ligand once; accepted 1e-20 to 20)",
     )
-    g.add_argument("--ratio", type=_ratio, help="amounts of the metals, e.g. 70:19:11 for Fe Cr Ni (largest at most 1e9 x smallest)")
     g.add_argument(
-        "--exclude", nargs="+", default=[], metavar="SPECIES", help="species to leave out"
+        "--ratio",
+        type=_ratio,
+        help="amounts of the metals, e.g. 70:19:11 for Fe Cr Ni (largest at most 1e9 x smallest)",
+    )
+    g.add_argument(
+        "--exclude",
+        nargs="+",
+        default=[],
+        metavar="SPECIES",
+        help="species to leave out (metal species, or a ligand's own species such as ClO4-)",
+    )
+    g.add_argument(
+        "--include-slow",
+        action="store_true",
+        help="keep ligand species that do not form on a practical time scale (perchlorate), "
+        "which ligand maps leave out by default",
     )
     g.add_argument(
         "--only", nargs="+", metavar="SPECIES", help="keep only these species (and the element)"
@@ -193,6 +214,7 @@ def _map_kwargs(a):
         exclude=tuple(a.exclude),
         only=tuple(a.only) if a.only else None,
         metastable=a.metastable,
+        slow_species="include" if getattr(a, "include_slow", False) else "exclude",
     )
 
 

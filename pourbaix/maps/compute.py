@@ -34,6 +34,7 @@ def compute_map(
     only=None,
     metastable="exclude",
     table=None,
+    slow_species="exclude",
     **condition_keywords,
 ):
     """Compute the exact potential-pH map of an element system.
@@ -54,6 +55,9 @@ def compute_map(
         the stable solid compounds.
     table : SpeciesTable, optional
         Pre-loaded tables (skips loading).
+    slow_species : {"exclude", "include"}
+        Ligand maps: leave out (default) or include the ligand species the
+        data name as not forming on a practical time scale (perchlorate).
     **condition_keywords
         The keywords of :func:`pourbaix.conditions.make_conditions`
         (``activity``, ``molality``, ``temperature_c``, ``pressure_bar``,
@@ -102,7 +106,12 @@ def compute_map(
         from pourbaix.maps.systems import compute_system_map
 
         return compute_system_map(
-            conditions, exclude=exclude, only=only, metastable=metastable, table=table
+            conditions,
+            exclude=exclude,
+            only=only,
+            metastable=metastable,
+            table=table,
+            slow_species=slow_species,
         )
     return compute_element_map(
         conditions, exclude=exclude, only=only, metastable=metastable, table=table

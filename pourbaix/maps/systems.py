@@ -57,6 +57,8 @@ from pourbaix.solve import envelope as solve
 from pourbaix.tables.ligands import LIGAND_ALIASES, LIGANDS, LigandFamily, resolve_ligand
 
 __all__ = [
+    "forms_slowly",
+    "slow_ligand_species",
     "LigandFamily",
     "LIGANDS",
     "LIGAND_ALIASES",
@@ -122,29 +124,73 @@ def _formation_plane(se, element, ctx, g_atom):
     return (c0 - shift / _FARADAY_KJ / x, cph, ce)
 
 
-def _ligand_species(table, fam):
+def forms_slowly(species):
+    """Whether the data name a species as not forming on a practical time scale.
+
+    Such species (perchlorate: its row's note reads "kinetically inert") are
+    thermodynamically stable in part of the window but are not made from
+    chloride at ordinary conditions in any practical time (common practice;
+    Pourbaix 1974, chlorine, notes the same), so ligand maps leave them out
+    unless asked to include them.
+
+    Parameters
+    ----------
+    species : Species
+        A row of the tables.
+
+    Returns
+    -------
+    bool
+    """
+    return "kinetically inert" in (species.note or "").lower()
+
+
+def _ligand_species(table, fam, leave_out=frozenset(), include_slow=False):
     out = []
     if fam.species is not None:
         for formula, phase in fam.species:
-            out.append(table.get(formula, phase))
+            sp = table.get(formula, phase)
+            if sp.key not in leave_out:
+                out.append(sp)
         return out
     allowed = set(fam.elements) | {"H", "O"}
     for sp in table.species:
         comp = dict(sp.composition)
         if fam.counted not in comp or not set(comp) <= allowed or sp.phase == "g":
             continue
-        if sp.metastable:
+        if sp.metastable or sp.key in leave_out:
+            continue
+        if not include_slow and forms_slowly(sp):
             continue
         out.append(sp)
     return out
 
 
-def _ligand_energies(table, fam, activity, ctx, g_atom):
+def slow_ligand_species(table, ligand):
+    """Names of a ligand's species left out by default as not forming on a practical time scale.
+
+    Parameters
+    ----------
+    table : SpeciesTable
+        The tables.
+    ligand : str
+        Ligand family name (``Cl``, ``S`` ...).
+
+    Returns
+    -------
+    list of str
+    """
+    fam = LIGANDS[resolve_ligand(ligand).name]
+    every = _ligand_species(table, fam, include_slow=True)
+    return [species_id(sp) for sp in every if forms_slowly(sp)]
+
+
+def _ligand_energies(table, fam, activity, ctx, g_atom, leave_out=frozenset(), include_slow=False):
     """SpeciesEnergy (plane per ligand unit, vs SHE) of each species of a family."""
     rows = []
     unit = dict(fam.unit)
     others = tuple(el for el in unit if el != fam.counted)
-    for sp in _ligand_species(table, fam):
+    for sp in _ligand_species(table, fam, leave_out, include_slow):
         comp = dict(sp.composition)
         m = comp[fam.counted]
         if any(comp.get(el, 0) * unit[fam.counted] != m * unit[el] for el in others):
@@ -597,9 +643,20 @@ def _combined_state(states):
 
 
 # ------------------------------------------------------------------ ligand map
-def _ligand_map(fam, activity, ctx, g_atom, table, conditions, water_she, water_sp):
+def _ligand_map(
+    fam,
+    activity,
+    ctx,
+    g_atom,
+    table,
+    conditions,
+    water_she,
+    water_sp,
+    leave_out=frozenset(),
+    include_slow=False,
+):
     off0, off1 = conditions.reference_offset_v, conditions.reference_slope_v_per_ph
-    rows = _ligand_energies(table, fam, activity, ctx, g_atom)
+    rows = _ligand_energies(table, fam, activity, ctx, g_atom, leave_out, include_slow)
     entries = [
         Entry(
             names=(species_id(se.species),),
@@ -724,6 +781,7 @@ def compute_system_map(
     table=None,
     warn=None,
     ratio_method="walk",
+    slow_species="exclude",
     **condition_keywords,
 ):
     """Map of a metal with ligands, or of several metals at a fixed ratio (or both).
@@ -780,6 +838,10 @@ def compute_system_map(
         programme (multi-parametric LP, cost grows with the domains) or
         enumerate every combination matching the ratio (the reference).
         Ligand systems always enumerate.
+    slow_species : {"exclude", "include"}
+        Ligand species the data name as not forming on a practical time
+        scale (:func:`forms_slowly`, e.g. perchlorate) are left out of the
+        ligands' maps by default (a warning names them); "include" keeps them.
 
     Returns
     -------
@@ -839,11 +901,22 @@ def compute_system_map(
     ctx = energies.context_for(table, conditions)
     off0, off1 = conditions.reference_offset_v, conditions.reference_slope_v_per_ph
     t = ctx.temperature_c
-    g_atom = {
-        el: _g_per_atom(table, el, t, ctx.pressure_bar) for el in (*elements, *lig_elements)
-    }
+    g_atom = {el: _g_per_atom(table, el, t, ctx.pressure_bar) for el in (*elements, *lig_elements)}
     system = _system_name(elements, families)
-    chosen = _select(table, elements, lig_elements, metastable, exclude, only, warn, system)
+    if slow_species not in ("exclude", "include"):
+        raise OptionError(f"slow_species must be exclude or include; got {slow_species!r}")
+    # names in exclude that are species of a ligand's own map leave that map
+    ligand_keys = {
+        sp.key: sp for fam, _ in families for sp in _ligand_species(table, fam, include_slow=True)
+    }
+    ligand_exclude, metal_exclude = set(), []
+    for name in exclude:
+        sp = table.get(name)  # raises UnknownSpeciesError with close matches
+        if sp.key in ligand_keys:
+            ligand_exclude.add(sp.key)
+        else:
+            metal_exclude.append(name)
+    chosen = _select(table, elements, lig_elements, metastable, metal_exclude, only, warn, system)
 
     # species planes: full formation plane per formula unit (Φ_s), metal counts, ligand units
     metal_rows, phis, counts, nus, skipped = [], [], [], [], []
@@ -958,7 +1031,25 @@ def compute_system_map(
     all_rows = list(metal_rows)
     ligand_maps, ligand_planes, ligand_names = {}, [], []
     for fam, a in families:
-        lm, rows = _ligand_map(fam, a, ctx, g_atom, table, conditions, water_she, water_sp)
+        lm, rows = _ligand_map(
+            fam,
+            a,
+            ctx,
+            g_atom,
+            table,
+            conditions,
+            water_she,
+            water_sp,
+            ligand_exclude,
+            slow_species == "include",
+        )
+        slow = [n for n in slow_ligand_species(table, fam.name) if slow_species != "include"]
+        if slow:
+            warn.append(
+                f"left out of the {fam.name} ligand's map as not forming on a practical time scale "
+                f"(kinetically inert): {', '.join(slow)}; to include them: --include-slow on the "
+                'command line, slow_species="include" in Python'
+            )
         ligand_maps[fam.name] = lm
         ligand_planes.append(np.array([e.plane for e in lm.entries]))
         ligand_names.append([e.names[0] for e in lm.entries])
