@@ -262,6 +262,54 @@ def _read_crc_ions(path: Path) -> dict:
     return out
 
 
+# element reference states whose CAS in the CRC table is not the element's own
+_DIATOMIC = {
+    "H": "1333-74-0",
+    "O": "7782-44-7",
+    "N": "7727-37-9",
+    "F": "7782-41-4",
+    "Cl": "7782-50-5",
+    "Br": "7726-95-6",
+    "I": "7553-56-2",
+}
+_REFERENCE_FORM = {"C": "7782-42-5", "S": "7704-34-9", "P": "7723-14-0"}
+
+
+def element_entropies(crc: dict) -> dict[str, float]:
+    """S of each element's reference state per atom [J/(mol K)] from the CRC table."""
+    from chemicals.elements import periodic_table
+
+    out = {}
+    for element in periodic_table:
+        symbol = element.symbol
+        cas = _DIATOMIC.get(symbol) or _REFERENCE_FORM.get(symbol) or element.CAS
+        row = crc.get(cas)
+        if not row:
+            continue
+        for phase in "slg":
+            h = row["Hf" + phase]
+            if row["S0" + phase] and (h == "" or float(h) == 0) and (h != "" or phase == "s"):
+                out[symbol] = float(row["S0" + phase]) / (2 if symbol in _DIATOMIC else 1)
+                break
+    return out
+
+
+def gibbs_remark(f, dgf: float, dhf: float | None, s: float | None, entropies: dict) -> str:
+    """Note text when dG, dH and S of a row disagree by more than 0.8 kJ/mol."""
+    if dhf is None or s is None or any(el not in entropies for el in f.composition):
+        return ""
+    # formation from the elements; an ion's charge balanced with H+/H2 (S(H+) = 0)
+    ds = s - sum(n * entropies[el] for el, n in f.composition.items()) + f.charge * entropies["H"]
+    implied = dhf - 298.15 * ds / 1000
+    if abs(dgf - implied) <= 0.8:
+        return ""
+    return (
+        f"; the printed dG, dH and S disagree: dH - T dS gives {implied:.1f} kJ/mol "
+        f"({dgf - implied:+.1f}; element entropies of the CRC table): dG kept, as it sets the "
+        "map at 25 C; routes to other temperatures carry the difference"
+    )
+
+
 def crc_remark(f, phase: str, dgf: float, crc_ions: dict) -> str:
     """Note text when the CRC ion table (NBS82 values) differs by more than 1 kJ/mol."""
     ref = crc_ions.get((frozenset(f.composition.items()), f.charge)) if phase == "aq" else None
@@ -600,6 +648,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
     seen: set[tuple[str, str]] = set()
     entries_by_name = {e.name: e for e in entries}
     crc_ions = _read_crc_ions(crc_ions_file())
+    entropies = element_entropies(_read_crc(crc_solids_file()))
 
     def accept(entry, stem) -> None:
         if entry.section in ("gases", "oxides") or not entry.value("delG0f"):
@@ -655,6 +704,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
         used_codes.add(entry.source)
         row = _row(entry, text, phase, form, source_key(entry.source), extra, printed)
         row[-1] += crc_remark(f, phase, float(row[3]), crc_ions)
+
         tables[stem].append(row)
 
     for symbol, stem in NEW_ELEMENTS.items():
@@ -803,6 +853,14 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
         if not rows:
             continue
         rows.sort(key=lambda r: (r[1] != "s" and r[1] != "l", r[0], r[2]))
+        for row in rows:
+            row[-1] += gibbs_remark(
+                parse_formula(row[0]),
+                float(row[3]),
+                float(row[4]) if row[4] else None,
+                float(row[5]) if row[5] else None,
+                entropies,
+            )
         cols, rows = _with_parameters(HEADER, rows, index, transitions)
         out[f"{stem}.csv"] = _csv_text(cols, rows)
     out["transitions/phase_transitions.csv"] = _csv_text(TRANSITIONS_HEADER, transitions)
