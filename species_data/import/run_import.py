@@ -154,6 +154,52 @@ EXCLUDE = {
     "Ce++": "implies E0(Ce3+/Ce2+) = +6.2 V where the divalent cerium couple lies near -3 V "
     "(Bard, Parsons & Jordan 1985): a defect of the derived value",
 }
+# standard potentials from the imported values that differ from the electrochemical series
+# (CRC Handbook; Bard, Parsons & Jordan 1985) by more than 10 mV, as computed by
+# tests/test_new_elements_e0.py; written into the note of the element's species
+E0_NOTES = {
+    ("H3AsO4", "aq"): "E0(H3AsO4/HAsO2) = 0.574 V where the series lists 0.56 V",
+    ("AsO4^3-", "aq"): "E0(AsO4^3-/AsO2-) = -0.744 V where the series lists -0.71 V (OH- form)",
+    ("Bi^3+", "aq"): "E0(Bi3+/Bi) = 0.331 V where the series lists 0.308 V",
+    ("BiO^+", "aq"): "E0(BiO+/Bi) = 0.396 V where the series lists 0.32 V",
+    ("Cd(OH)2", "s"): "E0(Cd(OH)2/Cd) = -0.825 V where the series lists -0.809 V (OH- form)",
+    ("H2Se", "aq"): "E0(Se/H2Se) = -0.115 V where the series lists -0.399 V",
+    ("Se^2-", "aq"): "E0(Se/Se^2-) = -0.670 V where the series lists -0.924 V",
+    ("TeO2", "s"): "E0(TeO2/Te) = 0.528 V where the series lists 0.593 V",
+    ("U^3+", "aq"): "E0(U3+/U) = -1.646 V where the series lists -1.798 V",
+    ("U^4+", "aq"): "E0(U4+/U3+) = -0.553 V where the series lists -0.607 V",
+    (
+        "UO2^2+",
+        "aq",
+    ): "E0(UO2^2+/UO2+) = 0.088 V where the series lists 0.062 V; E0(UO2^2+/U4+) = 0.267 V where the series lists 0.327 V",
+    ("UO2^+", "aq"): "E0(UO2+/U4+) = 0.447 V where the series lists 0.612 V",
+    ("V^2+", "aq"): "E0(V2+/V) = -1.127 V where the series lists -1.175 V",
+    ("WO2", "s"): "E0(WO2/W) = -0.155 V where the series lists -0.119 V",
+    ("ZrO2:baddeleyite", "s"): "E0(ZrO2/Zr) = -1.473 V where the series lists -1.553 V",
+    ("Zr^4+", "aq"): "E0(Zr4+/Zr) = -1.359 V where the series lists -1.45 V",
+    ("Nb2O5", "s"): "E0(Nb2O5/Nb) = -0.601 V where the series lists -0.644 V",
+    ("Pt^2+", "aq"): "E0(Pt2+/Pt) = 1.336 V where the series lists 1.18 V",
+    ("PtCl4^2-", "aq"): "E0(PtCl4^2-/Pt) = 0.743 V where the series lists 0.755 V",
+    ("Pd^2+", "aq"): "E0(Pd2+/Pd) = 0.915 V where the series lists 0.951 V",
+    ("PdCl4^2-", "aq"): "E0(PdCl4^2-/Pd) = 0.465 V where the series lists 0.591 V",
+    ("Tl^3+", "aq"): "E0(Tl3+/Tl+) = 1.280 V where the series lists 1.252 V",
+    ("GeO2", "s"): "E0(GeO2/Ge) = -0.122 V where the series lists -0.15 V",
+    ("SiO2:quartz", "s"): "E0(SiO2/Si) = -0.990 V where the series lists 0.857 V",
+    ("Be^2+", "aq"): "E0(Be2+/Be) = -1.810 V where the series lists -1.847 V",
+    ("Sr^2+", "aq"): "E0(Sr2+/Sr) = -2.922 V where the series lists -2.899 V",
+    ("Ce^4+", "aq"): "E0(Ce4+/Ce3+) = 1.740 V where the series lists 1.72 V",
+    ("F^-", "aq"): "E0(F2/F-) = 2.920 V where the series lists 2.866 V",
+}
+E0_REASON = (
+    "; the values of this element's compilation are kept (one compilation per element); the "
+    "series value rests on other data: read the boundary as uncertain by the difference"
+)
+E0_SPECIAL = {
+    ("SiO2:quartz", "s"): (
+        "; the series' 0.857 V cannot hold: it would make silicon nobler than copper, and "
+        "dG(SiO2) of every compilation gives about -0.99 V"
+    ),
+}
 # reference codes the LLNL file uses without listing them (citations checked by hand)
 MISSING_REFS = {
     "93sti/par": (
@@ -319,6 +365,13 @@ def crc_remark(f, phase: str, dgf: float, crc_ions: dict) -> str:
         f"; CRC lists {ref:.1f} (the NBS82 value): compilations differ by {dgf - ref:+.1f} kJ/mol; "
         "this value is kept so that the element's species come from one compilation"
     )
+
+
+def water_signature(f) -> tuple:
+    """Equal for two aqueous species that differ only by whole H2O molecules."""
+    c = dict(f.composition)
+    heavy = tuple(sorted((el, n) for el, n in c.items() if el not in ("H", "O")))
+    return heavy, f.charge, c.get("H", 0) - 2 * c.get("O", 0)
 
 
 def balanced(entry, f, by_name) -> bool:
@@ -647,6 +700,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
     used_codes: set[str] = set()
     seen: set[tuple[str, str]] = set()
     entries_by_name = {e.name: e for e in entries}
+    hydrates: dict[tuple, str] = {}
     crc_ions = _read_crc_ions(crc_ions_file())
     entropies = element_entropies(_read_crc(crc_solids_file()))
 
@@ -700,7 +754,15 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
         key = (text + (":" + form if form else ""), phase)
         if key in taken or key in seen:
             return
+        if phase == "aq" and water_signature(f) in hydrates:
+            report.append(
+                f"left out {entry.name}: the same species as {hydrates[water_signature(f)]} "
+                "written with more or less water"
+            )
+            return
         seen.add(key)
+        if phase == "aq":
+            hydrates[water_signature(f)] = text
         used_codes.add(entry.source)
         row = _row(entry, text, phase, form, source_key(entry.source), extra, printed)
         row[-1] += crc_remark(f, phase, float(row[3]), crc_ions)
@@ -742,12 +804,15 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
                 continue
             if not _selected(set(f.composition), text, symbol) or (text, "aq") in taken | seen:
                 continue
+            if water_signature(f) in hydrates:
+                continue
             if f.charge != entry.charge or dict(f.composition) != dict(entry.composition):
                 continue
             code = entry.refs[0] if entry.refs else ""
             if code not in sup_refs or entry.field(0, 0) is None:
                 continue
             seen.add((text, "aq"))
+            hydrates[water_signature(f)] = text
             sup_used.add(code)
             g, h, s_ = (entry.field(0, k) for k in range(3))
             printed = (
@@ -854,6 +919,9 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
             continue
         rows.sort(key=lambda r: (r[1] != "s" and r[1] != "l", r[0], r[2]))
         for row in rows:
+            name = (row[0] + (":" + row[2] if row[2] else ""), row[1])
+            if name in E0_NOTES:
+                row[-1] += "; " + E0_NOTES[name] + E0_SPECIAL.get(name, E0_REASON)
             row[-1] += gibbs_remark(
                 parse_formula(row[0]),
                 float(row[3]),
