@@ -164,6 +164,30 @@ def test_series_against_published_values():
 
 
 @pytest.mark.parametrize(
+    "label, crc",
+    [
+        # CRC Handbook, Electrochemical Series (from memory); mercury rows not in
+        # test_published_data's list
+        ("Hg2+/Hg", 0.851),
+        ("Hg2^2+/Hg", 0.7973),
+        ("Hg2+/Hg2^2+", 0.920),
+        ("Hg2Cl2/Hg", 0.26808),
+        ("Hg2SO4/Hg", 0.6125),
+        ("HgO/Hg", 0.0977),
+    ],
+)
+def test_mercury_couples(label, crc):
+    entry = next(e for e in electrochemical_series(elements=["Hg"]).entries if e.label == label)
+    assert entry.e0_v == pytest.approx(crc, abs=0.010)  # the series' 10 mV
+
+
+def test_a_formula_held_under_a_form_tag_is_found():
+    # calomel is stored as Hg2Cl2:calomel; typed without the tag it is still found
+    r = parse_half_reaction("Hg2Cl2 + 2e- = 2Hg + 2Cl-")
+    assert str(r.oxidised[0][0]) == "Hg2Cl2:calomel(s)"
+
+
+@pytest.mark.parametrize(
     "reference, offset",
     [
         # Ives & Janz 1961 cubic for saturated calomel at 60 °C, worked by hand
@@ -238,6 +262,20 @@ def test_nernst_shift_of_a_cell_by_hand():
     # 1 mol/kg of both: no shift
     one = cell_potential("Zn | Zn2+(m=1) || Cu2+(m=1) | Cu")
     assert one.e_cell_v == pytest.approx(base.e0_cell_v, abs=1e-12)
+
+
+def test_ionic_strength_applies_to_molalities():
+    """Davies at I = 0.1 mol/kg, A = 0.5092 at 25 °C (common value, from memory), worked by hand."""
+    i = 0.1
+    log_gamma_2 = -0.5092 * 4 * (math.sqrt(i) / (1 + math.sqrt(i)) - 0.3 * i)
+    plain = cell_potential("Zn | Zn2+ || Cu2+ | Cu", molalities={"Zn2+": 0.01})
+    salty = cell_potential(
+        "Zn | Zn2+ || Cu2+ | Cu",
+        state=SolutionState(ionic_strength=i),
+        molalities={"Zn2+": 0.01},
+    )
+    # only a(Zn2+) = m γ changes (Cu2+ is at activity 1): ΔE = -(k/2) log10 γ
+    assert salty.e_cell_v - plain.e_cell_v == pytest.approx(-K25 / 2 * log_gamma_2, abs=2e-4)
 
 
 def test_gibbs_energy_scales_with_the_reaction_and_e_does_not():
@@ -394,6 +432,15 @@ def test_couple_at_15_c_matches_the_half_reaction():
     assert c.metals[1].equilibrium_potential_v == pytest.approx(e, abs=1e-6)
     zn = nernst_potential(
         parse_half_reaction("Zn2+ + 2e- = Zn"), SolutionState(activity=1e-6), 15.0
+    )
+    assert c.metals[0].equilibrium_potential_v == pytest.approx(zn[1], abs=1e-6)
+
+
+def test_couple_at_150_c_matches_the_half_reaction():
+    """Above 100 °C (saturation pressure) the map and the half-reaction use the same routes."""
+    c = galvanic_couple(["Zn", "Cu"], ph=5.0, temperature_c=150.0)
+    zn = nernst_potential(
+        parse_half_reaction("Zn2+ + 2e- = Zn"), SolutionState(activity=1e-6), 150.0
     )
     assert c.metals[0].equilibrium_potential_v == pytest.approx(zn[1], abs=1e-6)
 

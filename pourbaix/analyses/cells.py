@@ -19,6 +19,7 @@ from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 from fractions import Fraction
 
+from pourbaix.constants import F_KJ, LN10
 from pourbaix.errors import ConditionsError, OptionError, ReactionError, UnknownSpeciesError
 from pourbaix.physics import thermo
 from pourbaix.physics.halfreactions import (
@@ -58,8 +59,6 @@ __all__ = [
     "galvanic_couple",
 ]
 
-_FARADAY_KJ = thermo.F / 1000.0  # kJ/(mol V)
-_LN10 = math.log(10.0)
 
 #: Caution every cell, series and couple output carries.
 CAUTION = (
@@ -131,6 +130,11 @@ SERIES = (
     ("Ag2S/Ag", "Ag2S(s) + 2 H+ + 2 e- = 2 Ag(s) + H2S(g)"),
     ("Ni(NH3)6^2+/Ni", "Ni(NH3)6^2+ + 2 e- = Ni(s) + 6 NH3(aq)"),
     ("Co(NH3)6^3+/Co(NH3)6^2+", "Co(NH3)6^3+ + e- = Co(NH3)6^2+"),
+    ("Hg2+/Hg", "Hg2+ + 2 e- = Hg(l)"),
+    ("Hg2^2+/Hg", "Hg2^2+ + 2 e- = 2 Hg(l)"),
+    ("Hg2+/Hg2^2+", "2 Hg2+ + 2 e- = Hg2^2+"),
+    ("Hg2Cl2/Hg", "Hg2Cl2:calomel + 2 e- = 2 Hg(l) + 2 Cl-"),
+    ("Hg2SO4/Hg", "Hg2SO4(s) + 2 e- = 2 Hg(l) + SO4^2-"),
     ("O2/OH-", "O2(g) + 2 H2O(l) + 4 e- = 4 OH-"),
     ("H2O/H2", "2 H2O(l) + 2 e- = H2(g) + 2 OH-"),
     ("Ag2O/Ag", "Ag2O(s) + H2O(l) + 2 e- = 2 Ag(s) + 2 OH-"),
@@ -145,6 +149,7 @@ SERIES = (
     ("CrO4^2-/Cr(OH)3", "CrO4^2- + 4 H2O(l) + 3 e- = Cr(OH)3(s) + 5 OH-"),
     ("Fe(OH)3/Fe(OH)2", "Fe(OH)3(s) + e- = Fe(OH)2(s) + OH-"),
     ("Al(OH)4-/Al", "Al(OH)4- + 3 e- = Al(s) + 4 OH-"),
+    ("HgO/Hg", "HgO:montroydite + H2O(l) + 2 e- = Hg(l) + 2 OH-"),
 )
 
 _SORTS = ("potential", "descending", "element", "table")
@@ -278,9 +283,21 @@ def _reference_offset(reference: str, temperature_c: float, ph, notes: list) -> 
     return ref.name, off
 
 
+def _reference_sources(names) -> dict:
+    """Reference electrode name -> where its potential at T comes from (SHE: nothing to cite)."""
+    from pourbaix.physics.electrodes import get_reference
+
+    out = {}
+    for name in names:
+        ref = get_reference(name)
+        if ref.name != "SHE":
+            out[ref.name] = ref.source
+    return out
+
+
 def _entry(label, half, table, temperature_c, pressure_bar, state, offset, log_kw, k):
     dg, routes, valid = reaction_gibbs_at(half, temperature_c, table, pressure_bar)
-    e0_she = -dg / (half.electrons * _FARADAY_KJ) + 0.0  # Bard & Faulkner 2001, eq. 2.1.22
+    e0_she = -dg / (half.electrons * F_KJ) + 0.0  # Bard & Faulkner 2001, eq. 2.1.22
     e_she = None
     if state is not None:
         q = log10_quotient(half, activity_function(state, temperature_c, log_kw))
@@ -442,6 +459,7 @@ def electrochemical_series(
 
     pressure = make_context(table, t, pressure_bar).pressure_bar
     used = {key for e in entries for _, key in e.sources}
+    refs = [ref_name]
     return SeriesResult(
         entries=tuple(entries),
         temperature_c=t,
@@ -450,7 +468,10 @@ def electrochemical_series(
         reference_offset_v=offset,
         state=state,
         skipped=tuple(skipped),
-        sources={key: table.sources.get(key, key) for key in sorted(used)},
+        sources={
+            **{key: table.sources.get(key, key) for key in sorted(used)},
+            **_reference_sources(refs),
+        },
         warnings=tuple(notes),
         dataset=table.dataset,
     )
@@ -785,6 +806,8 @@ class CellResult:
         Notes (temperature routes, electrode ranges).
     sources : dict
         Source key -> citation.
+    reaction_typeset : str
+        The cell reaction with Unicode sub- and superscripts.
     """
 
     anode: Electrode
@@ -805,6 +828,7 @@ class CellResult:
     reference_offset_v: float = 0.0
     warnings: tuple = ()
     sources: dict = field(default_factory=dict)
+    reaction_typeset: str = ""
 
     @property
     def spontaneous(self) -> bool:
@@ -837,12 +861,18 @@ class CellResult:
             "n": n,
             "e0_cell_v": self.e0_cell_v,
             "e_cell_v": self.e_cell_v,
-            "dg0_kj_mol": -n * _FARADAY_KJ * self.e0_cell_v,  # ΔrG° = -nFE°
-            "dg_kj_mol": -n * _FARADAY_KJ * self.e_cell_v,  # ΔrG = -nFE
+            "dg0_kj_mol": -n * F_KJ * self.e0_cell_v,  # ΔrG° = -nFE°
+            "dg_kj_mol": -n * F_KJ * self.e_cell_v,  # ΔrG = -nFE
         }
 
-    def electrode_rows(self) -> list[dict]:
-        """Each half-reaction as a reduction with E° and E (vs SHE and the reference)."""
+    def electrode_rows(self, unicode: bool = False) -> list[dict]:
+        """Each half-reaction as a reduction with E° and E (vs SHE and the reference).
+
+        Parameters
+        ----------
+        unicode : bool
+            Typeset the formulas with Unicode sub- and superscripts.
+        """
         out = []
         for role, el, e0, e in (
             ("anode (left)", self.anode, self.anode_e0_v, self.anode_e_v),
@@ -852,7 +882,7 @@ class CellResult:
                 {
                     "role": role,
                     "electrode": el.label,
-                    "reduction": el.reaction.text()
+                    "reduction": el.reaction.text(unicode)
                     if el.reaction is not None
                     else f"reference electrode {el.reference}",
                     "n": None if el.reaction is None else el.reaction.electrons,
@@ -889,7 +919,11 @@ class CellResult:
         }
 
 
-def _cell_reaction_text(anode_half, cathode_half, n, fa, fc, anode_ref, cathode_ref):
+def _cell_reaction_text(anode_half, cathode_half, n, fa, fc, anode_ref, cathode_ref, unicode=False):
+    def nm(sp):
+        return sp.formula.plain() if unicode else sp.name
+
+    electron = "e⁻" if unicode else "e-"
     if anode_half is None or cathode_half is None:
         half, ref, role = (
             (cathode_half, anode_ref, "anode")
@@ -899,28 +933,28 @@ def _cell_reaction_text(anode_half, cathode_half, n, fa, fc, anode_ref, cathode_
         if half is None:
             return "(two reference electrodes: no chemical reaction to write)"
         if role == "cathode":  # the written electrode is the anode: oxidation
-            left = " + ".join(f"{_c(c)}{sp.name}" for sp, c in half.reduced)
-            right = " + ".join(f"{_c(c)}{sp.name}" for sp, c in half.oxidised)
-            return f"{left} = {right} + {_c(half.electrons)}e- (the electrons reduce the {ref} electrode)"
-        return f"{half.text()} (the electrons come from the {ref} electrode)"
+            left = " + ".join(f"{_c(c)}{nm(sp)}" for sp, c in half.reduced)
+            right = " + ".join(f"{_c(c)}{nm(sp)}" for sp, c in half.oxidised)
+            return f"{left} = {right} + {_c(half.electrons)}{electron} (the electrons reduce the {ref} electrode)"
+        return f"{half.text(unicode)} (the electrons come from the {ref} electrode)"
     net: dict = {}
     names: dict = {}
     for sp, c in cathode_half.oxidised:
         net[sp.key] = net.get(sp.key, 0.0) - c * fc
-        names[sp.key] = sp.name
+        names[sp.key] = nm(sp)
     for sp, c in cathode_half.reduced:
         net[sp.key] = net.get(sp.key, 0.0) + c * fc
-        names[sp.key] = sp.name
+        names[sp.key] = nm(sp)
     for sp, c in anode_half.oxidised:  # the anode runs backwards
         net[sp.key] = net.get(sp.key, 0.0) + c * fa
-        names[sp.key] = sp.name
+        names[sp.key] = nm(sp)
     for sp, c in anode_half.reduced:
         net[sp.key] = net.get(sp.key, 0.0) - c * fa
-        names[sp.key] = sp.name
+        names[sp.key] = nm(sp)
     left = [f"{_c(-v)}{names[k]}" for k, v in net.items() if v < -1e-12]
     right = [f"{_c(v)}{names[k]}" for k, v in net.items() if v > 1e-12]
     if not left and not right:
-        moved = [f"{_c(c * fc)}{sp.name}" for sp, c in cathode_half.oxidised]
+        moved = [f"{_c(c * fc)}{nm(sp)}" for sp, c in cathode_half.oxidised]
         return (
             f"{' + '.join(moved)} (cathode side) = {' + '.join(moved)} (anode side): a "
             f"concentration cell  (n = {n:g})"
@@ -1052,12 +1086,13 @@ def cell_potential(
         dg, routes, valid = reaction_gibbs_at(el.reaction, t, table, pressure_bar)
         if valid < t:
             notes.append(f"{el.label}: energies used past their trusted range ({valid:g} °C)")
-        e0 = -dg / (el.reaction.electrons * _FARADAY_KJ) + 0.0  # Bard & Faulkner 2001, eq. 2.1.22
+        e0 = -dg / (el.reaction.electrons * F_KJ) + 0.0  # Bard & Faulkner 2001, eq. 2.1.22
         q = log10_quotient(el.reaction, activity_function(st, t, log_kw))
         values.append((e0, e0 - k / el.reaction.electrons * q))  # Nernst
         quotients.append(q)
         used |= {sp.source for sp in el.reaction.species()}
     _check_not_same(anode, cathode, values)
+    refs = [el.reference for el in (anode, cathode) if el.reference is not None]
     (ea0, ea), (ec0, ec) = values
     na = anode.reaction.electrons if anode.reaction is not None else None
     nc = cathode.reaction.electrons if cathode.reaction is not None else None
@@ -1067,9 +1102,9 @@ def cell_potential(
     log_q = fc * quotients[1] - fa * quotients[0]
     e0_cell = ec0 - ea0  # E°cell = E°cathode - E°anode
     e_cell = ec - ea  # = E°cell - (k/n) log10 Q (Nernst)
-    text = _cell_reaction_text(
-        anode.reaction, cathode.reaction, n, fa, fc, anode.reference, cathode.reference
-    )
+    args = (anode.reaction, cathode.reaction, n, fa, fc, anode.reference, cathode.reference)
+    text = _cell_reaction_text(*args)
+    typeset = _cell_reaction_text(*args, unicode=True)
     return CellResult(
         anode=anode,
         cathode=cathode,
@@ -1080,15 +1115,19 @@ def cell_potential(
         e0_cell_v=e0_cell,
         e_cell_v=e_cell,
         n=n,
-        dg_kj_mol=-n * _FARADAY_KJ * e_cell,  # ΔrG = -nFE
-        dg0_kj_mol=-n * _FARADAY_KJ * e0_cell,
+        dg_kj_mol=-n * F_KJ * e_cell,  # ΔrG = -nFE
+        dg0_kj_mol=-n * F_KJ * e0_cell,
         log10_q=log_q,
         reaction=text,
+        reaction_typeset=typeset,
         temperature_c=t,
         reference=ref_name,
         reference_offset_v=offset,
         warnings=tuple(notes),
-        sources={key: table.sources.get(key, key) for key in sorted(used)},
+        sources={
+            **{key: table.sources.get(key, key) for key in sorted(used)},
+            **_reference_sources(refs),
+        },
     )
 
 
@@ -1371,11 +1410,11 @@ def mixed_potential(
     def balance(e):
         # Wagner & Traud 1938: Σ anodic = Σ cathodic, as log-sum-exp on each side
         up = [
-            math.log(a * k.current_a_m2) + _LN10 * (e - r) / k.anodic_tafel_v
+            math.log(a * k.current_a_m2) + LN10 * (e - r) / k.anodic_tafel_v
             for r, k, a in zip(rest, kin, areas, strict=True)
         ]
         down = [
-            math.log(a * k.current_a_m2) - _LN10 * (e - r) / k.cathodic_tafel_v
+            math.log(a * k.current_a_m2) - LN10 * (e - r) / k.cathodic_tafel_v
             for r, k, a in zip(rest, kin, areas, strict=True)
         ]
         return _logsumexp(up) - _logsumexp(down)

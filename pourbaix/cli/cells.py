@@ -380,17 +380,20 @@ def _print_series(res, state):
     )
     print("E° = -ΔrG°/(nF) at the temperature; every couple written as a reduction.")
     w = max(len(e.label) for e in res.entries)
+    texts = [e.reaction.text(unicode=True) for e in res.entries]
+    wr = max(len(t) for t in texts)
     head = (
         f"{'couple':<{w}}  {'E° / V':>9}"
         + (f"  {'E / V':>9}" if state is not None else "")
-        + "  reaction"
+        + f"  {'reaction':<{wr}}  sources"
     )
     print(head)
-    for e in res.entries:
+    for e, text in zip(res.entries, texts, strict=True):
         line = f"{e.label:<{w}}  {e.e0_v:+9.4f}"
         if state is not None:
             line += f"  {e.e_v:+9.4f}"
-        print(f"{line}  {e.reaction.text(unicode=True)}")
+        keys = ", ".join(dict.fromkeys(key for _, key in e.sources))
+        print(f"{line}  {text:<{wr}}  {keys}")
     keys = sorted(res.sources)
     print("\nsources:")
     for k in keys:
@@ -564,7 +567,7 @@ def _cell_report(res, factors, caution):
             text=(
                 "Each half-reaction written as a reduction, with its standard and Nernst potential vs SHE.",
             ),
-            rows=tuple(res.electrode_rows()),
+            rows=tuple(res.electrode_rows(unicode=True)),
             columns=(
                 ("role", "Role"),
                 ("electrode", "Electrode"),
@@ -572,13 +575,17 @@ def _cell_report(res, factors, caution):
                 ("n", "n"),
                 ("e0_v_she", "E° [V vs SHE]", "+.4f"),
                 ("e_v_she", "E [V vs SHE]", "+.4f"),
-                ("e_v_ref", f"E [V vs {res.reference}]", "+.4f"),
+            )
+            + (
+                (("e_v_ref", f"E [V vs {res.reference}]", "+.4f"),)
+                if res.reference != "SHE"
+                else ()
             ),
         ),
         Section(
             "Cell",
             text=(
-                f"Cell reaction: {res.reaction}.",
+                f"Cell reaction: {res.reaction_typeset}.",
                 f"E°cell = E°cathode − E°anode = {res.e0_cell_v:+.4f} V; Ecell = E°cell − (RT/nF) ln Q = {res.e_cell_v:+.4f} V "
                 f"(n = {res.n:g}, log10 Q = {res.log10_q:+.3f}); ΔrG = −nF·Ecell = {res.dg_kj_mol:+.2f} kJ/mol for the reaction as written.",
                 conclusion,
@@ -711,10 +718,17 @@ def _print_couple(res):
         print(
             f"  mixed (couple) potential: {mx.potential_v:+.4f} V vs {res.reference} (Butler–Volmer, Σ I = 0)"
         )
-        for name, i, j, area in zip(
-            mx.names, mx.currents_a, mx.current_densities_a_m2, mx.areas_m2, strict=True
+        for name, i, j, area, rest in zip(
+            mx.names,
+            mx.currents_a,
+            mx.current_densities_a_m2,
+            mx.areas_m2,
+            mx.rest_potentials_v,
+            strict=True,
         ):
             m = next(x for x in res.metals if x.element == name)
+            if not math.isclose(rest, m.equilibrium_potential_v, abs_tol=1e-9):
+                print(f"    {name:<4} rest (corrosion) potential given: {rest:+.4f} V")
             print(
                 f"    {name:<4} area {area:g} m²: net {i:+.4g} A ({j:+.4g} A/m²); at the couple potential: {m.species_at_couple} ({m.state_at_couple})"
             )

@@ -16,6 +16,7 @@ from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from fractions import Fraction
 
+from pourbaix.constants import F_KJ, LN10, ZERO_C_K, R
 from pourbaix.errors import ConditionsError, ReactionError, UnknownSpeciesError
 from pourbaix.physics import thermo
 from pourbaix.physics.reactions import Reaction
@@ -35,8 +36,6 @@ __all__ = [
     "water_ion_product_log10",
 ]
 
-_FARADAY_KJ = thermo.F / 1000.0  # kJ/(mol V)
-_LN10 = math.log(10.0)
 _PHASE_PREFERENCE = ("s", "l", "g", "aq")  # a name without phase: the usual standard state first
 _ELECTRON_NAMES = {"e-", "e", "e^-", "e⁻", "e(-)", "electron", "electrons"}
 _ARROWS = re.compile(r"\s*(?:<=>|<->|⇌|⇄|->|→|=)\s*")
@@ -145,7 +144,9 @@ def find_species(table: SpeciesTable, name: str) -> Species:
     Species
         Without a written phase, the first phase found in the order solid,
         liquid, gas, aqueous (``O2`` is the gas, ``H2O`` the liquid, ``AgCl``
-        the solid); write ``(aq)`` for the dissolved form.
+        the solid); write ``(aq)`` for the dissolved form. A formula held only
+        under a form tag (``Hg2Cl2`` as ``Hg2Cl2:calomel``) is found when one
+        stable form carries it.
 
     Raises
     ------
@@ -155,14 +156,39 @@ def find_species(table: SpeciesTable, name: str) -> Species:
     try:
         return table.get(name)
     except UnknownSpeciesError as exc:
-        if "ambiguous" not in str(exc):
-            raise
-        for phase in _PHASE_PREFERENCE:
-            try:
-                return table.get(name, phase)
-            except UnknownSpeciesError:
-                continue
+        if "ambiguous" in str(exc):
+            for phase in _PHASE_PREFERENCE:
+                try:
+                    return table.get(name, phase)
+                except UnknownSpeciesError:
+                    continue
+        tagged = _only_tagged_form(table, name)
+        if tagged is not None:
+            return tagged
         raise
+
+
+def _only_tagged_form(table: SpeciesTable, name: str) -> Species | None:
+    """The one stable species with this formula held under a form tag (``Hg2Cl2:calomel``)."""
+    from pourbaix.errors import FormulaError
+    from pourbaix.tables.formula import parse_formula
+
+    if ":" in name:
+        return None
+    try:
+        f = parse_formula(name)
+    except FormulaError:
+        return None
+    found = [
+        sp
+        for sp in table.species
+        if sp.form is not None
+        and not sp.metastable
+        and sp.charge == f.charge
+        and dict(sp.composition) == dict(f.composition)
+        and (f.phase is None or sp.phase == f.phase)
+    ]
+    return found[0] if len(found) == 1 else None
 
 
 def _parse_side(text: str, side: str, whole: str, table: SpeciesTable):
@@ -352,7 +378,7 @@ class _Energies:
 
 
 def _energies(half: HalfReaction, table: SpeciesTable, temperature_c: float, pressure_bar=None):
-    from pourbaix.physics.energies import make_context
+    from pourbaix.physics.energies import aqueous_route_of, make_context
 
     t = float(thermo.check_temperature(temperature_c))
     ctx = make_context(table, t, pressure_bar)
@@ -364,7 +390,7 @@ def _energies(half: HalfReaction, table: SpeciesTable, temperature_c: float, pre
         if sp.phase == "l" and dict(sp.composition) == {"H": 2, "O": 1}:
             g, route, upto = ctx.g_water_kj, "IAPWS-95 (liquid water)", thermo.T_MAX_C
         else:
-            res = thermo.species_gibbs(sp, t)
+            res = thermo.species_gibbs(sp, t, ctx.pressure_bar, aqueous_route_of(table))
             g, route, upto = float(res.dg_kj_mol), res.route, float(res.valid_to_c)
         by_key[sp.key] = g
         routes[str(sp)] = route
@@ -449,9 +475,7 @@ def standard_potential_at(
     0.339
     """
     dg, _, _ = reaction_gibbs_at(half, temperature_c, table, pressure_bar)
-    return (
-        -dg / (half.electrons * _FARADAY_KJ) + 0.0
-    )  # Bard & Faulkner 2001, eq. 2.1.22 (+0.0: no -0)
+    return -dg / (half.electrons * F_KJ) + 0.0  # Bard & Faulkner 2001, eq. 2.1.22 (+0.0: no -0)
 
 
 def water_ion_product_log10(
@@ -477,13 +501,15 @@ def water_ion_product_log10(
     -----
     H2O = H+ + OH-:  log10 Kw = -(G(OH-) - G(H2O)) / (R T ln 10)  (van 't Hoff isotherm).
     """
-    from pourbaix.physics.energies import make_context
+    from pourbaix.physics.energies import aqueous_route_of, make_context
 
     table = table if table is not None else load_species()
     t = float(thermo.check_temperature(temperature_c))
     ctx = make_context(table, t, pressure_bar)
-    oh = thermo.species_gibbs(table.get("OH-"), t).dg_kj_mol
-    return -(oh - ctx.g_water_kj) * 1000.0 / (thermo.R * (t + 273.15) * _LN10)
+    oh = thermo.species_gibbs(
+        table.get("OH-"), t, ctx.pressure_bar, aqueous_route_of(table)
+    ).dg_kj_mol
+    return -(oh - ctx.g_water_kj) * 1000.0 / (R * (t + ZERO_C_K) * LN10)
 
 
 # --------------------------------------------------------------------------- activities

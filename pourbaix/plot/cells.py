@@ -206,9 +206,9 @@ def draw_couple_maps(couple, *, overlay=False, palette="default"):
         axes = [ax]
     else:
         count = len(metals)
-        fig, axes = plt.subplots(1, count, figsize=(5.6 * count, 5.6), squeeze=False)
+        fig, axes = plt.subplots(1, count, figsize=(5.6 * count, 6.6), squeeze=False)
         axes = list(axes[0])
-        fig.subplots_adjust(left=0.07, right=0.98, top=0.88, bottom=0.27, wspace=0.22)
+        fig.subplots_adjust(left=0.07, right=0.98, top=0.9, bottom=0.36, wspace=0.22)
         for ax, m in zip(axes, metals, strict=True):
             draw_map(m.dmap, ax=ax, reading=True, caption=False, palette=palette, title=m.element)
     handles = []
@@ -283,13 +283,18 @@ def draw_couple_maps(couple, *, overlay=False, palette="default"):
         fontweight="bold",
         color=_INK,
     )
+    # the markers' key goes below everything the maps put under their axes (state keys, captions)
+    renderer = fig.canvas.get_renderer()
+    lowest = min(
+        [ax.get_tightbbox(renderer).y0 for ax in axes] + [fig.bbox.height * 0.2], default=0.0
+    )
     fig.legend(
         handles=handles,
-        loc="lower center",
+        loc="upper center",
         ncol=min(3, len(handles)),
         fontsize=8.5,
         frameon=False,
-        bbox_to_anchor=(0.5, 0.03),
+        bbox_to_anchor=(0.5, max(lowest - 4.0, 30.0) / fig.bbox.height),
     )
     fig.text(
         0.01,
