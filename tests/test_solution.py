@@ -192,7 +192,7 @@ def test_model_limits(model, warn_at, refuse_at):
 
 def test_unknown_model_and_bad_input():
     with pytest.raises(OptionError, match="valid models: davies, extended-debye-huckel, b-dot"):
-        solution.log_gamma(1, 0.1, model="pitzer")
+        solution.log_gamma(1, 0.1, model="truesdell-jones")
     with pytest.raises(OptionError, match="valid models"):
         solution.model_validity("truesdell")
     with pytest.raises(ConditionsError, match="ionic strength"):

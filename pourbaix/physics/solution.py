@@ -1,7 +1,9 @@
 """Ionic strength, background electrolytes and activity-coefficient models.
 
-Molalities are in mol/kg of water; log means log10. Three models are offered
-(:data:`ACTIVITY_MODELS`): Davies, extended Debye–Hückel and B-dot. Each states
+Molalities are in mol/kg of water; log means log10. Five models are offered
+(:data:`ACTIVITY_MODELS`): Davies, extended Debye–Hückel, B-dot, SIT and Pitzer
+(the last two by charge only here; with the ions, :mod:`pourbaix.physics.sit` and
+:mod:`pourbaix.physics.pitzer`). Each states
 the ionic strength above which it warns (:class:`~pourbaix.physics.thermo.RangeWarning`)
 and above which it refuses (:class:`~pourbaix.errors.ConditionsError`); see
 :func:`model_validity`. Neutral species get γ = 1 (no salting-out term).
@@ -555,8 +557,51 @@ ACTIVITY_MODELS: dict[str, ActivityModel] = {
         "above 3 mol/kg",
         "Helgeson, H. C. (1969). Am. J. Sci. 267, 729-804.",
     ),
+    "sit": ActivityModel(
+        "sit",
+        3.5,
+        6.0,
+        "SIT (NEA-TDB): log g = -z^2 D + sum eps m, D = A sqrt(I)/(1 + 1.5 sqrt(I)); holds to about "
+        "3.5 mol/kg; for an ion known only by its charge the eps terms are 0 (the specific terms "
+        "need the ions: pourbaix.physics.sit); warns above 3.5, refuses above 6 mol/kg",
+        "Grenthe, I. et al. (1992). Chemical Thermodynamics of Uranium, NEA-TDB vol. 1, "
+        "Elsevier, Appendix B; Guillaumont, R. et al. (2003). NEA-TDB vol. 5, Appendix B.",
+    ),
+    "pitzer": ActivityModel(
+        "pitzer",
+        9.0,
+        20.0,
+        "Pitzer with the Harvie-Moller-Weare (1984) parameters, 25 °C, Na-K-Mg-Ca-H-Cl-SO4-HCO3-"
+        "CO3-OH; for an ion known only by its charge only the long-range term z^2 f applies (the "
+        "specific terms need the ions: pourbaix.physics.pitzer); warns above 9, refuses above "
+        "20 mol/kg",
+        "Harvie, C. E., Moller, N., Weare, J. H. (1984). Geochim. Cosmochim. Acta 48, 723-751; "
+        "Pitzer, K. S. (1973). J. Phys. Chem. 77, 268.",
+    ),
 }
-_MODEL_FUNCS = {"davies": _davies, "extended-debye-huckel": _extended_dh, "b-dot": _bdot_model}
+
+
+def _sit_model(z, i, t, size, p):
+    from pourbaix.physics import sit
+
+    return sit.log_gamma_long_range(z, i, t)
+
+
+def _pitzer_model(z, i, t, size, p):
+    from pourbaix.physics import pitzer
+
+    if abs(t - 25.0) > 0.5:
+        raise ConditionsError(f"the Pitzer parameters here are those of 25 °C; got {t:g} °C")
+    return pitzer.log_gamma_long_range(z, i)
+
+
+_MODEL_FUNCS = {
+    "davies": _davies,
+    "extended-debye-huckel": _extended_dh,
+    "b-dot": _bdot_model,
+    "sit": _sit_model,
+    "pitzer": _pitzer_model,
+}
 _MODEL_ALIASES = {
     "davies": "davies",
     "extended-debye-huckel": "extended-debye-huckel",
@@ -564,6 +609,8 @@ _MODEL_ALIASES = {
     "edh": "extended-debye-huckel",
     "b-dot": "b-dot",
     "bdot": "b-dot",
+    "sit": "sit",
+    "pitzer": "pitzer",
 }
 
 

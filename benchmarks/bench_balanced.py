@@ -1,0 +1,85 @@
+"""Speed of mass-balanced maps against the naive dense-grid solve.
+
+Run:  python benchmarks/bench_balanced.py  [--repeat N]
+
+Prints, for a Cu-NH3 map (Cu 1e-2, N 1 mol/kg) and an Au-CN map (Au 1e-5,
+CN 1e-3 mol/kg) over the default window (pH -2..16, -2..2 V):
+- the median time of ``compute_balanced_map`` (the call ``pourbaix map
+  --balance`` makes; tables cached, one warm-up run) and its number of
+  equilibrium solves, with the time per solve;
+- the dense grid at 0.05 pH x 5 mV (361 x 801 points, the naive way): its
+  number of solves and its time, extrapolated from timing every 20th row of
+  the grid with warm starts along each row (the fastest fair way to solve a
+  grid with this solver);
+- the ratios. Targets (issue 15): <= 1 s per map, >= 50x fewer solves.
+No assertions: this prints figures.
+"""
+
+from __future__ import annotations
+
+import argparse
+import statistics
+import time
+
+import numpy as np
+
+
+def _median_time(fn, repeat):
+    ts, out = [], None
+    for _ in range(repeat):
+        t = time.perf_counter()
+        out = fn()
+        ts.append(time.perf_counter() - t)
+    return statistics.median(ts), out
+
+
+def _grid_time(system, ph, e, every=20):
+    """Seconds to solve the whole grid, from every ``every``-th row (warm starts along a row)."""
+    from pourbaix.solve.equilibrium import solve_at
+
+    rows = e[::every]
+    t = time.perf_counter()
+    for ev in rows:
+        r = None
+        for p in ph:
+            r = solve_at(system, p, ev, start=r)
+    per_row = (time.perf_counter() - t) / len(rows)
+    return per_row * len(e)
+
+
+def main(argv=None):
+    p = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    p.add_argument("--repeat", type=int, default=5, help="runs per figure (median)")
+    a = p.parse_args(argv)
+
+    from pourbaix.maps.balanced import compute_balanced_map
+    from pourbaix.tables.species import load_species
+
+    table = load_species()
+    ph = np.arange(-2.0, 16.0 + 1e-9, 0.05)
+    e = np.arange(-2.0, 2.0 + 1e-9, 0.005)
+    print(f"dense grid: {len(ph)} x {len(e)} = {len(ph) * len(e)} points (0.05 pH x 5 mV)")
+    for metal, totals in (("Cu", {"Cu": 1e-2, "N": 1.0}), ("Au", {"Au": 1e-5, "CN": 1e-3})):
+
+        def run(metal=metal, totals=totals):
+            return compute_balanced_map(metal, totals, table=table)
+
+        run()  # warm-up
+        t, m = _median_time(run, a.repeat)
+        grid = len(ph) * len(e)
+        t_grid = _grid_time(m.system, ph, e)
+        name = f"{metal}-{'-'.join(k for k in totals if k != metal)}"
+        print(
+            f"{name}: traced map {t:.2f} s (median of {a.repeat}), {m.solves} solves "
+            f"({1e3 * t / m.solves:.2f} ms each), {len(m.domains)} domains, "
+            f"{len(m.boundaries)} boundary segments"
+        )
+        print(
+            f"{name}: dense grid {grid} solves, about {t_grid:.0f} s; "
+            f"{grid / m.solves:.0f}x fewer solves, {t_grid / t:.0f}x faster "
+            f"(targets: <= 1 s per map, >= 50x fewer solves)"
+        )
+
+
+if __name__ == "__main__":
+    main()

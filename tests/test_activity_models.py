@@ -1,0 +1,144 @@
+"""SIT and Pitzer against published tables and worked values; ranges enforced.
+
+Sources of the check values (all from memory, as marked):
+- Robinson & Stokes, *Electrolyte Solutions*, 2nd ed. (1959), Appendix 8.10: mean molal
+  activity coefficients at 25 °C of NaCl and CaCl2; Appendix 8.3: osmotic coefficients.
+- Millero & Leung (1976), Am. J. Sci. 276, 1035: osmotic coefficient of seawater of
+  salinity 35 at 25 °C, 0.901.
+- NEA-TDB (Grenthe et al. 1992, Appendix B): D = 0.509 sqrt(I)/(1 + 1.5 sqrt(I)) at 25 °C and
+  eps(Na+, Cl-) = 0.03, eps(H+, Cl-) = 0.12, eps(Cu2+, Cl-) = 0.08 kg/mol.
+"""
+
+import math
+import warnings
+
+import pytest
+
+from pourbaix.errors import ConditionsError, OptionError
+from pourbaix.physics import pitzer, sit, solution
+from pourbaix.physics.thermo import RangeWarning
+
+# Robinson & Stokes 1959, Appendix 8.10 (from memory)
+NACL_GAMMA = {
+    0.1: 0.778,
+    0.5: 0.681,
+    1.0: 0.657,
+    2.0: 0.668,
+    3.0: 0.714,
+    4.0: 0.783,
+    5.0: 0.874,
+    6.0: 0.986,
+}
+CACL2_GAMMA = {0.1: 0.518, 0.5: 0.448, 1.0: 0.500, 2.0: 0.792, 3.0: 1.483}
+
+# Millero et al. 2008 (Deep-Sea Res. I 55, 50), reference-composition seawater, S = 35, major
+# ions [mol/kg water] (from memory); Br-, borate, Sr2+ and F- (under 0.2 % of the salt) left out
+SEAWATER = {
+    "Na^+": 0.4860597,
+    "Mg^2+": 0.0547421,
+    "Ca^2+": 0.0106568,
+    "K^+": 0.0105797,
+    "Cl^-": 0.5657647,
+    "SO4^2-": 0.0292643,
+    "HCO3^-": 0.0017803,
+    "CO3^2-": 0.0002477,
+}
+
+
+@pytest.mark.parametrize("m,expected", sorted(NACL_GAMMA.items()))
+def test_pitzer_nacl_to_6_molal(m, expected):
+    # tables give 3 decimals; the HMW84 fit reproduces them to about 0.5 %
+    assert pitzer.mean_activity_coefficient("NaCl", m) == pytest.approx(expected, rel=0.006)
+
+
+@pytest.mark.parametrize("m,expected", sorted(CACL2_GAMMA.items()))
+def test_pitzer_cacl2_to_3_molal(m, expected):
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", RangeWarning)  # I = 9 mol/kg at 3 mol/kg CaCl2
+        got = pitzer.mean_activity_coefficient("CaCl2", m)
+    # the binary CaCl2 parameters of HMW84 reproduce the table to about 1.5 % up to 3 mol/kg
+    assert got == pytest.approx(expected, rel=0.02)
+
+
+def test_pitzer_osmotic_coefficients():
+    # Robinson & Stokes 1959, Appendix 8.3 (from memory): NaCl 1 m 0.936, 6 m 1.271
+    assert pitzer.pitzer({"Na^+": 1.0, "Cl^-": 1.0}).osmotic_coefficient == pytest.approx(
+        0.936, abs=0.003
+    )
+    assert pitzer.pitzer({"Na^+": 6.0, "Cl^-": 6.0}).osmotic_coefficient == pytest.approx(
+        1.271, abs=0.006
+    )
+
+
+def test_pitzer_seawater_osmotic_coefficient_and_water_activity():
+    r = pitzer.pitzer(SEAWATER)
+    # Millero & Leung 1976: phi = 0.901 at S = 35, 25 °C (from memory); minor ions left out
+    assert r.osmotic_coefficient == pytest.approx(0.901, abs=0.005)
+    # a_w = exp(-phi M_w sum m): 0.9814 for seawater of S = 35 (Millero & Leung 1976, from memory)
+    assert r.water_activity == pytest.approx(0.9814, abs=3e-4)
+    assert r.ionic_strength == pytest.approx(0.722, abs=0.002)  # of this composition, by hand
+
+
+def test_pitzer_range_is_enforced():
+    with pytest.raises(ConditionsError, match="25 °C"):
+        pitzer.pitzer({"Na^+": 1.0, "Cl^-": 1.0}, temperature_c=60.0)
+    with pytest.raises(OptionError, match="Cu"):
+        pitzer.pitzer({"Cu^2+": 0.1, "Cl^-": 0.2})
+    with pytest.raises(ConditionsError, match="limit"):
+        pitzer.pitzer({"Ca^2+": 8.0, "Cl^-": 16.0})
+    with pytest.warns(RangeWarning, match="above 9"):
+        pitzer.pitzer({"Ca^2+": 3.5, "Cl^-": 7.0})
+    with pytest.raises(ConditionsError, match=">= 0"):
+        pitzer.pitzer({"Na^+": -1.0, "Cl^-": 1.0})
+
+
+def test_pitzer_parameters_read_from_the_import():
+    p = pitzer.load_parameters()
+    # HMW84, Table 1 (from memory): NaCl beta0 0.0765, beta1 0.2664, C-phi 0.00127
+    assert p["beta0"][("Cl^-", "Na^+")] == pytest.approx(0.0765)
+    assert p["beta1"][("Cl^-", "Na^+")] == pytest.approx(0.2664)
+    assert p["cphi"][("Cl^-", "Na^+")] == pytest.approx(0.00127)
+    # MgSO4, a 2-2 salt with beta2 (HMW84 Table 1, from memory): -37.23
+    assert p["beta2"][("Mg^2+", "SO4^2-")] == pytest.approx(-37.23)
+
+
+def test_sit_worked_values():
+    # NEA-TDB eq. B.4 by hand at 25 °C, 1 mol/kg NaCl: D = 0.509 x 1 / 2.5 = 0.2036
+    d = 0.509 / 2.5
+    assert sit.debye_huckel_term(1.0) == pytest.approx(d, rel=1e-12)
+    r = sit.sit({"Na^+": 1.0, "Cl^-": 1.0, "H^+": 0.01, "Cu^2+": 0.001})
+    i = r.ionic_strength
+    d = 0.509 * math.sqrt(i) / (1 + 1.5 * math.sqrt(i))
+    cl = 1.0  # the only anion: eps terms of the cations are eps(ion, Cl-) x 1 mol/kg
+    assert r.log_gamma["H^+"] == pytest.approx(-d + 0.12 * cl, abs=1e-12)
+    assert r.log_gamma["Cu^2+"] == pytest.approx(-4 * d + 0.08 * cl, abs=1e-12)
+    assert r.log_gamma["Na^+"] == pytest.approx(-d + 0.03 * cl, abs=1e-12)
+
+
+@pytest.mark.parametrize("m", [0.5, 1.0, 2.0, 3.0])
+def test_sit_nacl_against_robinson_stokes(m):
+    # SIT holds to about 3.5 mol/kg within a few per cent (NEA-TDB, Appendix B)
+    assert sit.mean_activity_coefficient("NaCl", m) == pytest.approx(NACL_GAMMA[m], rel=0.03)
+
+
+def test_sit_range_and_missing_pairs():
+    with pytest.raises(ConditionsError, match="limit"):
+        sit.sit({"Na^+": 7.0, "Cl^-": 7.0})
+    with pytest.warns(RangeWarning, match="3.5"):
+        sit.sit({"Na^+": 4.0, "Cl^-": 4.0})
+    with pytest.raises(ConditionsError, match="50"):
+        sit.sit({"Na^+": 1.0, "Cl^-": 1.0}, temperature_c=80.0)
+    r = sit.sit({"Cs^+": 0.1, "Cl^-": 0.1})
+    assert r.missing == (("Cs^+", "Cl^-"),)
+
+
+def test_registry_knows_the_new_models():
+    d = 0.509 * math.sqrt(0.5) / (1 + 1.5 * math.sqrt(0.5))
+    assert solution.log_gamma(2, 0.5, model="sit") == pytest.approx(-4 * d, rel=1e-12)
+    lo, hi, text = solution.model_validity("sit")
+    assert (lo, hi) == (3.5, 6.0) and "NEA-TDB" in text
+    # Pitzer's long-range term at 1 mol/kg: f = -A_phi (sqrt I/(1 + 1.2 sqrt I) + (2/1.2) ln(1 + 1.2 sqrt I))
+    f = -0.3915 * (1 / 2.2 + 2 / 1.2 * math.log(2.2))
+    assert solution.log_gamma(1, 1.0, model="pitzer") == pytest.approx(f / math.log(10), rel=1e-12)
+    with pytest.raises(ConditionsError, match="25 °C"):
+        solution.log_gamma(1, 1.0, temperature_c=60.0, model="pitzer")
