@@ -66,6 +66,8 @@ def _check_combination(a):
         ("--ratio", getattr(a, "ratio", None)),
         ("--only", getattr(a, "only", None)),
         ("--solubility-lines", getattr(a, "solubility_lines", None)),
+        ("--slider-temperature", getattr(a, "slider_temperature", None)),
+        ("--slider-activity", getattr(a, "slider_activity", None)),
     ):
         if value:
             raise OptionError(
