@@ -23,6 +23,7 @@ from functools import lru_cache
 from pathlib import Path
 
 from pourbaix.errors import ConditionsError, DataError, OptionError
+from pourbaix.physics.solution import PITZER_A_PHI_25C as A_PHI_25C
 from pourbaix.physics.thermo import RangeWarning
 
 __all__ = [
@@ -51,7 +52,6 @@ PITZER_IONS = {
 }
 WARN_ABOVE = 9.0  # [mol/kg] ionic strength (CaCl2 to 3 mol/kg, seawater and NaCl to saturation)
 REFUSE_ABOVE = 20.0  # [mol/kg]
-A_PHI_25C = 0.3915  # Debye-Hückel osmotic slope at 25 °C [kg^1/2 mol^-1/2] (Pitzer 1991, table 1)
 _B = 1.2  # [kg^1/2 mol^-1/2] (Pitzer 1973)
 _WATER_KG_PER_MOL = 0.018015268  # molar mass of water [kg/mol] (IAPWS)
 
@@ -365,12 +365,9 @@ def log_gamma_long_range(charge, ionic_strength):
     """The composition-free part of Pitzer's log10 gamma: z^2 f^gamma / ln 10 [-].
 
     This is what an ion gets when only its charge is known (the activity-model
-    registry's interface); the specific terms need the composition
+    registry's ``pitzer`` entry); the specific terms need the composition
     (:func:`pitzer`).
     """
-    import numpy as np
+    from pourbaix.physics.solution import log_gamma
 
-    i = np.asarray(ionic_strength, dtype=float)
-    s = np.sqrt(i)
-    f = -A_PHI_25C * (s / (1 + _B * s) + 2.0 / _B * np.log1p(_B * s))
-    return np.asarray(charge, dtype=float) ** 2 * f / math.log(10.0)
+    return log_gamma(charge, ionic_strength, 25.0, model="pitzer")

@@ -221,11 +221,6 @@ def mean_activity_coefficient(salt, molality, temperature_c=25.0):
 
 def log_gamma_long_range(charge, ionic_strength, temperature_c=25.0):
     """-z^2 D: SIT for an ion known only by its charge (epsilon terms need the ions) [-]."""
-    import numpy as np
+    from pourbaix.physics.solution import log_gamma
 
-    i = np.asarray(ionic_strength, dtype=float)
-    from pourbaix.physics.solution import debye_huckel_a
-
-    a = 0.509 if float(temperature_c) == 25.0 else float(debye_huckel_a(temperature_c))
-    s = np.sqrt(i)
-    return -(np.asarray(charge, dtype=float) ** 2) * a * s / (1.0 + _BA * s)
+    return log_gamma(charge, ionic_strength, temperature_c, model="sit")

@@ -38,6 +38,7 @@ __all__ = [
     "model_validity",
     "log_gamma",
     "mean_activity_coefficient",
+    "PITZER_A_PHI_25C",
 ]
 
 # CODATA 2018 values, from one module with their sources.
@@ -581,18 +582,26 @@ ACTIVITY_MODELS: dict[str, ActivityModel] = {
 }
 
 
-def _sit_model(z, i, t, size, p):
-    from pourbaix.physics import sit
+#: Debye-Hückel osmotic slope A_phi at 25 °C used with the Pitzer parameters
+#: [kg^1/2 mol^-1/2] (Pitzer 1991, table 1; from memory).
+PITZER_A_PHI_25C = 0.3915
 
-    return sit.log_gamma_long_range(z, i, t)
+
+def _sit_model(z, i, t, size, p):
+    # NEA-TDB (Grenthe et al. 1992, App. B, eqs. B.2, B.4) with every epsilon 0:
+    # log g = -z^2 A sqrt(I)/(1 + 1.5 sqrt(I)), A = 0.509 at 25 °C
+    a = 0.509 if t == 25.0 else debye_huckel_a(t, p)
+    si = np.sqrt(i)
+    return -(z**2) * a * si / (1.0 + 1.5 * si)
 
 
 def _pitzer_model(z, i, t, size, p):
-    from pourbaix.physics import pitzer
-
     if abs(t - 25.0) > 0.5:
         raise ConditionsError(f"the Pitzer parameters here are those of 25 °C; got {t:g} °C")
-    return pitzer.log_gamma_long_range(z, i)
+    si = np.sqrt(i)
+    # Pitzer 1973, eq. 18 (b = 1.2): f = -A_phi [sqrt(I)/(1 + b sqrt(I)) + (2/b) ln(1 + b sqrt(I))]
+    f = -PITZER_A_PHI_25C * (si / (1 + 1.2 * si) + 2.0 / 1.2 * np.log1p(1.2 * si))
+    return z**2 * f / _LN10
 
 
 _MODEL_FUNCS = {
