@@ -245,3 +245,24 @@ def test_cli_balanced_map_bad_input(tmp_path, capsys):
     assert main(["map", "Cu", "--balance", "--ligand", "S=1e-3", "--out", str(out)]) == 2
     assert "--ligand" in capsys.readouterr().err
     assert not out.exists()
+
+
+def test_cli_balanced_map_refuses_options_of_the_plane_method(tmp_path, capsys):
+    out = tmp_path / "x.html"
+    code = main(
+        [
+            "map",
+            "Cu",
+            "--total",
+            "N=1",
+            "--balance",
+            "--slider-temperature",
+            "25",
+            "60",
+            "--out",
+            str(out),
+        ]
+    )
+    assert code == 2
+    assert "--slider-temperature" in capsys.readouterr().err
+    assert not out.exists()
