@@ -199,10 +199,10 @@ def pitzer(molalities, temperature_c=25.0, parameters=None):
     F = -A_phi [sqrt(I)/(1 + b sqrt(I)) + (2/b) ln(1 + b sqrt(I))] + sum m_c m_a B'_ca
     + sum m_c m_c' Phi'_cc' + sum m_a m_a' Phi'_aa',
     ln gamma_M = z_M^2 F + sum_a m_a (2 B_Ma + Z C_Ma) + sum_c m_c (2 Phi_Mc
-    + sum_a m_a psi_Mca) + sum m_a m_a' psi_Maa' + |z_M| sum m_c m_a C_ca
+    + sum_a m_a psi_Mca) + sum m_a m_a' psi_Maa' + abs(z_M) sum m_c m_a C_ca
     (anions alike), and the osmotic coefficient from eq. (A1); B from Pitzer
     (1973) with alpha1 = 2 (alpha1 = 1.4, alpha2 = 12 for 2-2 salts), C = C-phi /
-    (2 sqrt|z_M z_X|), Phi = theta + E-theta (Pitzer 1975).
+    (2 sqrt(abs(z_M z_X))), Phi = theta + E-theta (Pitzer 1975).
 
     References
     ----------
