@@ -116,7 +116,7 @@ def main(argv=None):
 
     with (
         LocalCluster(
-            n_workers=2, threads_per_worker=1, processes=True, dashboard_address=None
+            n_workers=2, threads_per_worker=1, processes=True, dashboard_address=":0"
         ) as cluster,
         Client(cluster) as client,
     ):

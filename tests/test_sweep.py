@@ -201,8 +201,11 @@ def test_local_processes_give_the_same_results():
     kw = dict(temperature_c=[25, 60, 95], activity=[1e-6, 1e-4], at=POINTS, chunk_size=2)
     serial = sweep("Fe", workers=1, **kw)
     pooled = sweep("Fe", workers=2, **kw)
+    whole = sweep("Fe", workers=1, **{**kw, "chunk_size": 100})  # other chunks, same answer
     for name in serial.data_vars:
         np.testing.assert_array_equal(serial[name].values, pooled[name].values)
+        np.testing.assert_array_equal(serial[name].values, whole[name].values)
+    np.testing.assert_array_equal(serial["domain"].values, whole["domain"].values)
 
 
 def test_dask_local_cluster_matches_the_local_run():
@@ -213,7 +216,7 @@ def test_dask_local_cluster_matches_the_local_run():
     local = sweep("Fe", workers=1, **kw)
     with (
         distributed.LocalCluster(
-            n_workers=2, threads_per_worker=1, processes=False, dashboard_address=None
+            n_workers=2, threads_per_worker=1, processes=False, dashboard_address=":0"
         ) as cluster,
         distributed.Client(cluster) as client,
     ):

@@ -888,10 +888,19 @@ def _assemble(spec, results):
             arrays[name] = np.full((len(spec.systems), size, *tail), fill, dtype=dtype)
         return arrays[name]
 
-    # domains in the order they first appear in grid order (whatever order the chunks finished in)
-    area_names = list(
-        dict.fromkeys(str(n) for key in sorted(results) for n in results[key].get("area_names", ()))
-    )
+    # domains in the order they first appear in grid order, whatever the chunks were
+    # and whatever order they finished in: key (system, grid index, place in that map)
+    first = {}
+    for s_idx, start in sorted(results):
+        res = results[(s_idx, start)]
+        if "area" not in res:
+            continue
+        for j, name in enumerate(res["area_names"]):
+            rows = np.flatnonzero(res["area"][:, j] > 0)
+            if len(rows):
+                key = (s_idx, int(res["flat"][rows[0]]), j)
+                first[str(name)] = min(first.get(str(name), key), key)
+    area_names = sorted(first, key=first.get)
     col = {n: i for i, n in enumerate(area_names)}
     for (s, _), res in results.items():
         flat = res["flat"]
@@ -908,9 +917,9 @@ def _assemble(spec, results):
             slot("solubility_solid", (), object, "")[s, flat] = res["solubility_solid"]
         if "area" in res:
             a = slot("area", (len(area_names),), float, 0.0)
-            idx = [col[str(n)] for n in res["area_names"]]
-            if idx:
-                a[s, flat[:, None], np.array(idx)[None, :]] = res["area"]
+            for j, name in enumerate(res["area_names"]):
+                if str(name) in col:
+                    a[s, flat, col[str(name)]] = res["area"][:, j]
     data_vars = {}
     for name, arr in arrays.items():
         tail = {"area": ["domain"]}.get(name, ["point"] if arr.ndim == 3 else [])

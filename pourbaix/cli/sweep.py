@@ -175,7 +175,36 @@ def cmd_sweep(a):
             raise OptionError(f"--ligand: {name.strip()} is given twice")
         ligands[name.strip()] = values
     systems = [" ".join(a.element), *a.system]
-    ds = sweep(
+    try:
+        ds = _sweep(a, sweep, systems, ligands)
+    except KeyboardInterrupt:
+        print(
+            f"pourbaix: sweep interrupted; the chunks finished so far are kept in {a.out}.parts/ - "
+            "run the same command again to resume",
+            file=sys.stderr,
+        )
+        return 130
+    dims = [d for d in ds.dims if d not in ("point", "domain")]
+    size = 1
+    for d in dims:
+        size *= ds.sizes[d]
+    shape = " x ".join(f"{d} {ds.sizes[d]}" for d in dims)
+    reused = ds.attrs.get("chunks_reused", 0)
+    note = (
+        f"; {reused} of {ds.attrs.get('chunks')} chunks reused from an earlier run"
+        if reused
+        else ""
+    )
+    print(f"wrote {a.out}: {size} maps ({shape}){note}")
+    print(
+        "A sweep holds thermodynamic predictions at equilibrium; see the caution in the file.",
+        file=sys.stderr,
+    )
+    return 0
+
+
+def _sweep(a, sweep, systems, ligands):
+    return sweep(
         systems=systems,
         temperature_c=a.temperature,
         activity=a.activity,
@@ -201,20 +230,3 @@ def cmd_sweep(a):
         data_files=tuple(a.data),
         metastable=a.metastable,
     )
-    dims = [d for d in ds.dims if d not in ("point", "domain")]
-    size = 1
-    for d in dims:
-        size *= ds.sizes[d]
-    shape = " x ".join(f"{d} {ds.sizes[d]}" for d in dims)
-    reused = ds.attrs.get("chunks_reused", 0)
-    note = (
-        f"; {reused} of {ds.attrs.get('chunks')} chunks reused from an earlier run"
-        if reused
-        else ""
-    )
-    print(f"wrote {a.out}: {size} maps ({shape}){note}")
-    print(
-        "A sweep holds thermodynamic predictions at equilibrium; see the caution in the file.",
-        file=sys.stderr,
-    )
-    return 0
