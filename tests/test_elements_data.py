@@ -58,3 +58,15 @@ def test_new_element_maps_tile_the_window(element):
     total = sum(d.area for d in m.domains)
     assert total == pytest.approx(window, rel=1e-9)
     assert len(m.domains) >= 2
+
+
+def test_datasets_counts_the_rows_typed_from_memory(capsys):
+    rows = load_species().species
+    typed = [s for s in rows if "from memory" in s.note]
+    assert main(["datasets"]) == 0
+    out = capsys.readouterr().out
+    assert f"{len(typed)} of {len(rows)} rows of the default data set were typed from memory" in out
+    # every imported row names the file it was read from, none is typed from memory
+    imported = [s for s in rows if s.note.startswith("read by species_data/import")]
+    assert len(imported) > 500
+    assert not [s for s in imported if "from memory" in s.note]

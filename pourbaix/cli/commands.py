@@ -466,10 +466,16 @@ def cmd_references(a):
 
 def cmd_datasets(a):
     """List the data sets."""
-    from pourbaix.tables.species import available_datasets
+    from pourbaix.tables.species import available_datasets, load_species
 
     for name, desc in available_datasets().items():
         print(f"{name}: {desc}")
+    rows = load_species().species
+    typed = sum("from memory" in (s.note or "") for s in rows)
+    print(
+        f"\n{typed} of {len(rows)} rows of the default data set were typed from memory "
+        "(their notes say so and why); `pourbaix elements` shows which elements hold them"
+    )
     return 0
 
 
