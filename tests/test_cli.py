@@ -5,7 +5,9 @@ import subprocess
 import sys
 
 import pytest
+import shapely.geometry
 
+import pourbaix
 from pourbaix.cli.commands import main
 
 
@@ -171,3 +173,32 @@ def test_map_palette_option(tmp_path, capsys):
         capsys, "map", "Fe", "--palette", "sepia", "--out", str(tmp_path / "x.svg")
     )
     assert code == 2 and "invalid choice" in err and not (tmp_path / "x.svg").exists()
+
+
+# ---------------------------------------------------------------------- issue 17: defaults that hid answers
+def test_default_window_widens_to_show_magnesium_immunity(tmp_path, capsys):
+    out = tmp_path / "mg.json"
+    code, _, err = run(capsys, "map", "Mg", "--out", str(out))
+    assert code == 0, err
+    assert "widened down to -3 V" in err and "immunity" in err
+    doc = json.loads(out.read_text(encoding="utf-8"))
+    text = json.dumps(doc)
+    assert '"Mg"' in text
+    m = pourbaix.compute_map("Mg", potential_range_v=(-3.0, 2.0))
+    mg = next(d for d in m.domains if d.species == ("Mg",))
+    # CODATA key values (Cox, Wagman & Medvedev 1989; from memory): dHf(Mg2+) = -467.0 kJ/mol,
+    # S(Mg2+) = -137, S(Mg, s) = 32.67, S(H2, g) = 130.68 J/(mol K), S(H+) = 0:
+    # dGf = -467.0 - 298.15 x (-137 - 32.67 + 130.68) / 1000 = -455.38 kJ/mol,
+    # E0(Mg2+/Mg) = dGf / (2 F) = -2.3598 V, and at 1e-6 the immunity line lies at
+    # -2.3598 - 0.029580 x 6 = -2.5373 V at pH 0
+    dgf = -467.0 - 298.15 * (-137 - 32.67 + 130.68) / 1000
+    line = dgf / (2 * 96.485332) - 0.0295799 * 6
+    cut = mg.polygon.intersection(shapely.geometry.LineString([(0.0, -3.0), (0.0, 2.0)]))
+    assert cut.bounds[3] == pytest.approx(line, abs=0.001)  # key values to 0.1: 0.5 mV
+    # a window the user chose stays as chosen
+    code, stdout, err = run(capsys, "map", "Mg", "--potential", "-2", "2", "--out", str(out))
+    assert code == 0 and "widened" not in err
+    assert "never stable in the window: Mg" in stdout
+    # iron's immunity is inside the default window: nothing changes
+    code, _, err = run(capsys, "map", "Fe", "--out", str(out))
+    assert "widened" not in err

@@ -268,6 +268,10 @@ def cmd_map(a):
 
         get_reference(a.second_axis)  # an unknown name fails before any work
     dmap = _compute(a)
+    widened = _widen_for_immunity(a, dmap)
+    if widened:
+        dmap = widened[0]
+        print(f"pourbaix: note: {widened[1]}", file=sys.stderr)
     _print_warnings(dmap)
     if not getattr(a, "balance", False):
         _note_missing_solid(dmap)
@@ -288,7 +292,11 @@ def cmd_map(a):
         from pourbaix.plot import draw
 
         ax = draw.draw_map(
-            dmap, reading=a.reading, second_reference=a.second_axis, palette=a.palette
+            dmap,
+            reading=a.reading,
+            second_reference=a.second_axis,
+            palette=a.palette,
+            notes=[widened[1]] if widened else (),
         )
         if a.solubility_lines is not None:
             from pourbaix.analyses.solubility import DEFAULT_LEVELS, add_solubility_lines
@@ -306,6 +314,37 @@ def cmd_map(a):
     if dmap.never_stable:
         print("never stable in the window: " + ", ".join(dmap.never_stable))
     return 0
+
+
+def _widen_for_immunity(a, dmap):
+    """(map, note) on a window widened down to show the metal's immunity, or None.
+
+    Only when the potential window is the default one and the metal's
+    immunity lies below it somewhere in the pH window (magnesium, aluminium).
+    """
+    from pourbaix.maps.window import LOWEST_FLOOR_V, widened_floor_v
+
+    if not isinstance(a.potential, tuple) or getattr(a, "balance", False):
+        return None  # the user chose the window (argparse gives a list), or a balanced map
+    if len(dmap.conditions.elements) != 1:
+        return None
+    lo, hi = a.potential
+    wide = _compute(_with_potential(a, (LOWEST_FLOOR_V, hi)))
+    floor = widened_floor_v(wide, lo)
+    if floor is None:
+        return None
+    element = dmap.conditions.elements[0]
+    note = (
+        f"window widened down to {floor:g} V vs {dmap.conditions.reference} to show {element}'s immunity, "
+        f"which lies below the default {lo:g} V (give --potential LO HI to choose the window)"
+    )
+    return _compute(_with_potential(a, (floor, hi))), note
+
+
+def _with_potential(a, window):
+    b = argparse.Namespace(**vars(a))
+    b.potential = list(window)
+    return b
 
 
 def _slider_maps(a, dmap):

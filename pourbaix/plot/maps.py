@@ -69,6 +69,7 @@ def draw_map(
     labels=True,
     palette="default",
     title=None,
+    notes=(),
 ):
     """Draw a potential-pH map: filled domains, labels, boundaries, water lines, caption.
 
@@ -95,6 +96,8 @@ def draw_map(
         (``corrosion``, ``passivation``, ``immunity``; optional ``hatch``).
     title : str or False, optional
         Title; None gives the element system, False or "" gives none.
+    notes : sequence of str
+        Extra lines for the caption (e.g. why the window was widened).
 
     Returns
     -------
@@ -126,7 +129,7 @@ def draw_map(
     second = second_shift(dmap, second_reference) if second_reference else None
     own = ax is None
     c = dmap.conditions
-    extra = [READING_CAUTION] if reading else []
+    extra = [str(n) for n in notes] + ([READING_CAUTION] if reading else [])
     if own:
         fig, ax = new_axes()
         right = 0.885 if second_reference else 0.965
