@@ -186,10 +186,11 @@ def _basis_from_solution(A, c, amounts, duals):
 def _reduced_planes(costs, A, r, basis):
     B = A[:, list(basis)]
     try:
-        W = np.linalg.solve(B, A)  # B⁻¹ A  (k, N)
-        x_b = np.linalg.solve(B, r)
+        inverse = np.linalg.inv(B)  # k x k, k the number of metals
     except np.linalg.LinAlgError:
         return None, None, None
+    W = inverse @ A  # B⁻¹ A  (k, N)
+    x_b = inverse @ r
     # reduced costs d_j = c_j − c_Bᵀ B⁻¹ A_j, each a plane in (pH, E) (Gal & Nedoma 1972)
     D = costs - W.T @ costs[list(basis)]
     return D, W, x_b
@@ -207,24 +208,28 @@ def _clip_labelled(window, D, columns, tol):
         j = int(np.argmin(worst))
         if worst[j] >= -tol:
             return V, L
-        v = vals[j]
+        v = vals[j].tolist()
+        pts = V.tolist()  # plain floats: a handful of vertices, cheaper than numpy scalars
+        label = int(columns[j])
         out_v, out_l = [], []
-        n = len(V)
+        n = len(pts)
         for i in range(n):
-            p, q = V[i], V[(i + 1) % n]
+            (px, py), (qx, qy) = pts[i], pts[(i + 1) % n]
             vp, vq = v[i], v[(i + 1) % n]
             if vp >= -tol:
-                out_v.append(p)
+                out_v.append((px, py))
                 if vq < -tol and vp > tol:
+                    t = vp / (vp - vq)
                     out_l.append(L[i])
-                    out_v.append(p + (vp / (vp - vq)) * (q - p))
-                    out_l.append(int(columns[j]))
+                    out_v.append((px + t * (qx - px), py + t * (qy - py)))
+                    out_l.append(label)
                 elif vq < -tol:
-                    out_l.append(int(columns[j]))  # p on the line, q outside
+                    out_l.append(label)  # p on the line, q outside
                 else:
                     out_l.append(L[i])
             elif vq > tol:
-                out_v.append(p + (vp / (vp - vq)) * (q - p))
+                t = vp / (vp - vq)
+                out_v.append((px + t * (qx - px), py + t * (qy - py)))
                 out_l.append(L[i])
         if len(out_v) < 3:
             return None, None
@@ -265,8 +270,8 @@ def critical_region(costs, counts, ratio, basis, window):
     return _region(costs, A, r, tuple(sorted(int(b) for b in basis)), window)
 
 
-def _region(costs, A, r, basis, window):
-    D, _, x_b = _reduced_planes(costs, A, r, basis)
+def _region(costs, A, r, basis, window, reduced=None):
+    D, _, x_b = _reduced_planes(costs, A, r, basis) if reduced is None else reduced
     if D is None or np.any(x_b < -_AMOUNT_TOL):
         return None
     nonbasic = np.setdiff1d(np.arange(len(costs)), basis)
@@ -280,11 +285,12 @@ def _region(costs, A, r, basis, window):
     return CriticalRegion(basis, np.maximum(x_b, 0.0), V, tuple(L))
 
 
-def _pivot(A, r, basis, entering):
-    """Basis after entering column ``entering`` (ratio test; Dantzig 1963, ch. 7)."""
-    B = A[:, list(basis)]
-    w = np.linalg.solve(B, A[:, entering])
-    x_b = np.linalg.solve(B, r)
+def _pivot(W, x_b, basis, entering):
+    """Basis after entering column ``entering`` (ratio test; Dantzig 1963, ch. 7).
+
+    ``W`` is B⁻¹ A and ``x_b`` is B⁻¹ r of the current basis.
+    """
+    w = W[:, entering]
     ok = w > 1e-12
     if not ok.any():
         return None
@@ -295,8 +301,8 @@ def _pivot(A, r, basis, entering):
     return tuple(sorted(new))
 
 
-def _dual_feasible_at(costs, A, r, basis, point, scale):
-    D, _, x_b = _reduced_planes(costs, A, r, basis)
+def _dual_feasible_at(reduced, point, scale):
+    D, _, x_b = reduced
     if D is None or np.any(x_b < -_AMOUNT_TOL):
         return False
     d = D[:, 0] + D[:, 1] * point[0] + D[:, 2] * point[1]
@@ -360,6 +366,12 @@ def walk(costs, counts, ratio, window, start=None):
     start = ((x0 + x1) / 2, (y0 + y1) / 2) if start is None else tuple(start)
     regions, seen, degenerate = [], set(), False
     stack = []
+    cache = {}
+
+    def reduced(basis):
+        if basis not in cache:
+            cache[basis] = _reduced_planes(costs, A, r, basis)
+        return cache[basis]
 
     def push_point(point):
         b = _lp_basis(costs, A, r, point)
@@ -373,19 +385,17 @@ def walk(costs, counts, ratio, window, start=None):
             if basis in seen:
                 continue
             seen.add(basis)
-            reg = _region(costs, A, r, basis, window)
+            D, W, x_b = reduced(basis)
+            reg = _region(costs, A, r, basis, window, (D, W, x_b))
             if reg is None:
                 continue
             regions.append(reg)
             if np.any(reg.amounts <= _AMOUNT_TOL):
                 degenerate = True
-            D = None
             V, L = reg.polygon, reg.edge_columns
             for i, j in enumerate(L):
                 if j < 0:
                     continue
-                if D is None:
-                    D, _, _ = _reduced_planes(costs, A, r, basis)
                 mid = 0.5 * (V[i] + V[(i + 1) % len(V)])
                 grad = D[j, 1:]
                 norm = float(np.hypot(*grad))
@@ -394,10 +404,10 @@ def walk(costs, counts, ratio, window, start=None):
                 point = mid - _STEP * diag * grad / norm  # just outside: d_j < 0 there
                 if not (x0 <= point[0] <= x1 and y0 <= point[1] <= y1):
                     continue
-                nb = _pivot(A, r, basis, j)
+                nb = _pivot(W, x_b, basis, j)
                 if nb is not None and nb in seen:
                     continue
-                if nb is not None and _dual_feasible_at(costs, A, r, nb, point, scale):
+                if nb is not None and _dual_feasible_at(reduced(nb), point, scale):
                     stack.append(nb)
                 else:
                     push_point(point)
