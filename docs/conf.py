@@ -29,7 +29,7 @@ extensions = [
 # Everything is local: no intersphinx, no remote fonts or scripts (math is typeset to SVG
 # at build time by pourbaix_docs.mathsvg).
 templates_path = []
-exclude_patterns = ["_build", "gallery/*.py", "gallery/data"]
+exclude_patterns = ["_build", "gallery/*.py", "gallery/data", "generated/activity_models.rst"]
 html_theme = "alabaster"
 html_static_path = ["_static"]
 html_css_files = ["pourbaix.css"]

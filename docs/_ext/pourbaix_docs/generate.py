@@ -298,6 +298,20 @@ def _element_page(element, species, alternatives, table):
     return "".join(parts)
 
 
+# --------------------------------------------------------------------------- activity models
+
+
+def write_activity_models(out):
+    """The activity models' limits and sources, for methods/activity.rst to include."""
+    from pourbaix.physics.solution import ACTIVITY_MODELS
+
+    rows = [(m.name, f"{m.warn_above:g}", f"{m.refuse_above:g}", m.text, m.reference)
+            for m in ACTIVITY_MODELS.values()]
+    _write(out / "activity_models.rst", _list_table(
+        ("model", "warns above [mol/kg]", "refuses above [mol/kg]", "where it holds", "source"),
+        rows, widths=(10, 9, 9, 44, 28)))
+
+
 # --------------------------------------------------------------------------- API pages
 
 
@@ -461,6 +475,7 @@ def generate(app):
     started = time.perf_counter()
     write_cli(out)
     write_data(out)
+    write_activity_models(out)
     write_api(out)
     if os.environ.get(QUICK_ENV):
         _write(out / "gallery" / "index.rst", _title("Gallery") + "\n(Not run in a quick build.)\n")
