@@ -311,3 +311,32 @@ def test_compare_figure_refuses_a_reference_that_moves_with_temperature(tmp_path
     )
     assert code == 2 and "moves between 25 and 60 °C" in err and one_error_line(err)
     assert not png.exists()
+
+
+# ---------------------------------------------------------------------- issue 17: beyond any real solution
+def test_dissolved_amounts_beyond_any_real_solution_are_marked_not_printed(capsys):
+    # ZnO in strong acid: log K(ZnO + 2 H+ = Zn2+ + H2O) is about 11 (Baes & Mesmer 1976; from
+    # memory), so at pH 0 the computed 'solubility' is ~1e11 mol/kg, which no solution holds
+    code = main(["solubility", "Zn", "--potential", "0", "--ph", "0", "8", "--step", "1"])
+    out = capsys.readouterr().out
+    assert code == 0
+    first = next(ln for ln in out.splitlines() if ln.strip().startswith("0.00"))
+    assert "beyond any real solution" in first and "e+11" not in first
+    near_neutral = next(ln for ln in out.splitlines() if ln.strip().startswith("8.00"))
+    assert "beyond" not in near_neutral
+    main(["solubility", "Zn", "--potential", "0", "--ph", "0", "8", "--step", "1", "--json"])
+    rows = json.loads(capsys.readouterr().out)["rows"]
+    assert rows[0]["beyond_real_solution"] and not rows[-1]["beyond_real_solution"]
+
+
+def test_window_parts_above_ph_14_are_marked(capsys):
+    code = main(
+        ["window", "Cu", "--keep-solid", "Fe", "--ligand", "S=0.1", "--dissolved-at-least", "1e-2",
+         "--others-at-most", "1e-5"]
+    )  # fmt: skip
+    out = capsys.readouterr().out
+    assert code == 0
+    high = [ln for ln in out.splitlines() if ln.strip().startswith("pH 15")]
+    assert high and all("beyond any real solution" in ln for ln in high)
+    low = [ln for ln in out.splitlines() if ln.strip().startswith("pH 1.")]
+    assert low and not any("beyond" in ln for ln in low)

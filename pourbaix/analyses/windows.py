@@ -7,6 +7,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from pourbaix.analyses.limits import REAL_SOLUTION_PH_MAX, amount_text
 from pourbaix.analyses.solubility import (
     DEFAULT_TOLERANCE,
     _check_basis,
@@ -656,6 +657,9 @@ def _fmt_bounds(b, unit):
     return f"{b[0]:.2f} .. {b[1]:.2f}"
 
 
+_BEYOND_PH = "more than 1 mol/kg hydroxide, beyond any real solution"
+
+
 def _describe(window):
     """Plain-text lines describing a window (used by the command line)."""
     out = []
@@ -678,8 +682,13 @@ def _describe(window):
     if len(parts) > 1:
         out.append(f"  {len(parts)} separate parts:")
         for c in parts:
+            flag = (
+                f" (above pH {REAL_SOLUTION_PH_MAX:g}: {_BEYOND_PH})"
+                if c["ph_bounds"][0] >= REAL_SOLUTION_PH_MAX
+                else ""
+            )
             out.append(
-                f"    pH {_fmt_bounds(c['ph_bounds'], 'pH')}, E {_fmt_bounds(c['potential_bounds_v'], 'V')}, area {c['area']:.3g} pH·V"
+                f"    pH {_fmt_bounds(c['ph_bounds'], 'pH')}, E {_fmt_bounds(c['potential_bounds_v'], 'V')}, area {c['area']:.3g} pH·V{flag}"
             )
     bx, by = w.best_point
     out.append(f"  best point: pH {bx:.2f}, E = {by:+.3f} V")
@@ -690,7 +699,7 @@ def _describe(window):
     )
     out.append(
         "  dissolved there: "
-        + ", ".join(f"{el} {v:.3g} mol/kg" for el, v in w.solubility_at_best.items())
+        + ", ".join(f"{el} {amount_text(v)}" for el, v in w.solubility_at_best.items())
     )
     if not math.isfinite(w.area):
         raise ConditionsError("window area is not finite")

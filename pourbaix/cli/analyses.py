@@ -166,6 +166,7 @@ def _add_outputs(p, out_help=None):
 def _cmd_solubility(a, map_kwargs):
     import numpy as np
 
+    from pourbaix.analyses.limits import REAL_SOLUTION_LIMIT_MOL_KG, beyond_real_solution
     from pourbaix.analyses.solubility import (
         DEFAULT_LEVELS,
         add_solubility_lines,
@@ -212,7 +213,11 @@ def _cmd_solubility(a, map_kwargs):
                 {
                     "element": element,
                     "reference": ref,
-                    "rows": rows,
+                    "rows": [
+                        {**r, "beyond_real_solution": beyond_real_solution(r["total_mol_kg"])}
+                        for r in rows
+                    ],
+                    "real_solution_limit_mol_kg": REAL_SOLUTION_LIMIT_MOL_KG,
                     "minimum": {
                         "ph": ph_min,
                         "total_mol_kg": float(at_min.total_molality),
@@ -234,10 +239,20 @@ def _cmd_solubility(a, map_kwargs):
         print(
             f"{'pH':>6}  {'E [V]':>7}  {'log10 S':>8}  {'S [mol/kg]':>10}  {'solid':<14} {'main dissolved':<16} at the map's activity"
         )
+        from pourbaix.analyses.limits import amount_text, beyond_real_solution
+
         for r in rows:
             e = r[f"potential_v_vs_{ref}"]
+            if beyond_real_solution(r["total_mol_kg"]):  # not a number anyone can use
+                log_s, s, sat = "—", "—", amount_text(r["total_mol_kg"])
+            else:
+                log_s, s, sat = (
+                    f"{r['log10_total']:.3f}",
+                    f"{r['total_mol_kg']:.3g}",
+                    r["saturation"],
+                )
             print(
-                f"{r['ph']:6.2f}  {e:+7.3f}  {r['log10_total']:8.3f}  {r['total_mol_kg']:10.3g}  {r['solid']:<14} {r['dominant']:<16} {r['saturation']}"
+                f"{r['ph']:6.2f}  {e:+7.3f}  {log_s:>8}  {s:>10}  {r['solid']:<14} {r['dominant']:<16} {sat}"
             )
         print(
             f"minimum: pH {ph_min:.2f}, S = {float(at_min.total_molality):.3g} mol/kg ({at_min.solid}, mainly {at_min.dominant})"
