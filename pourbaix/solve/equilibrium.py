@@ -152,6 +152,9 @@ def _predict(lam, n_aq, dmu, A_aq, A_s, aq, active, b):
 def _independent(rows, A_s, candidate):
     if not rows:
         return True
+    if len(rows) == 1:  # two rows: independent unless parallel
+        a, c = A_s[rows[0]], A_s[candidate]
+        return abs(a @ c) < (1.0 - 1e-12) * math.sqrt((a @ a) * (c @ c))
     M = A_s[list(rows) + [candidate]]
     return np.linalg.matrix_rank(M, tol=1e-9) == len(rows) + 1
 
@@ -222,8 +225,8 @@ def _solve_fixed_gamma(b, A_aq, mu_aq, A_s, mu_s, lam, active, max_iter):
             raise EquilibriumError(
                 "singular Newton system (the solids given are degenerate)"
             ) from None
-        rel = float(np.max(np.abs(resid) / scale))
-        big = float(np.max(np.abs(step)))
+        rel = float((np.abs(resid) / scale).max())
+        big = float(np.abs(step).max())
         if big < 1e-10 or rel < MASS_TOLERANCE * 1e-2:
             if k and nu.min() < -1e-14 * b.sum():
                 W.pop(int(np.argmin(nu)))  # a solid with negative amount leaves (phase rule)
@@ -238,8 +241,8 @@ def _solve_fixed_gamma(b, A_aq, mu_aq, A_s, mu_s, lam, active, max_iter):
             rate = A_s @ step
             slack = np.maximum(mu_s - A_s @ lam, 0.0)
             rate[W] = 0.0
-            with np.errstate(divide="ignore", invalid="ignore"):
-                t = np.where(rate > 1e-300, slack / rate, np.inf)
+            t = np.full(n_s, np.inf)
+            np.divide(slack, rate, out=t, where=rate > 1e-300)
             q = int(np.argmin(t))
             if t[q] < alpha:
                 alpha, block = float(t[q]), q
