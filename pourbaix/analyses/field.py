@@ -155,6 +155,24 @@ class FieldData:
     map_temperature_c: float | None = None
     notes: list = field(default_factory=list)
 
+    def to_frame(self):
+        """The readings as a pandas DataFrame (pandas is an optional extra).
+
+        Returns
+        -------
+        pandas.DataFrame
+            One row per reading, the columns of :meth:`table`.
+        """
+        from pourbaix.plot.notebook import as_frame
+
+        return as_frame(self.table())
+
+    def _repr_html_(self):
+        try:
+            return self.to_frame()._repr_html_()
+        except OptionError:
+            return None  # no pandas: the plain text form is shown
+
     def table(self):
         """The readings as plain dicts (JSON-ready; inf -> None).
 

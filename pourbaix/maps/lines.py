@@ -8,13 +8,31 @@ import numpy as np
 
 from pourbaix.errors import DataError
 
-__all__ = ["boundary_equations"]
+__all__ = ["boundary_equations", "boundary_equations_frame"]
 
 
 def _species_by_name(dmap):
     from pourbaix.maps.domain_map import species_id
 
     return {species_id(se.species): se for se in dmap.species}
+
+
+def boundary_equations_frame(dmap):
+    """:func:`boundary_equations` as a pandas DataFrame (pandas is an optional extra).
+
+    Parameters
+    ----------
+    dmap : DomainMap
+        A computed map.
+
+    Returns
+    -------
+    pandas.DataFrame
+        One row per boundary.
+    """
+    from pourbaix.plot.notebook import as_frame
+
+    return as_frame(boundary_equations(dmap))
 
 
 def boundary_equations(dmap):

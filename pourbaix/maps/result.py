@@ -253,6 +253,12 @@ class DomainMap:
                 return d
         return None
 
+    def _repr_png_(self):
+        """The map's figure, for notebooks (``pourbaix.plot.notebook.map_png``)."""
+        from pourbaix.plot.notebook import map_png
+
+        return map_png(self)
+
     def probe(self, ph, potential_v):
         """Stable species, state and margins at points.
 
