@@ -119,13 +119,13 @@ def _add_conditions(p, window=True):
         type=_float,
         default=25.0,
         metavar="C",
-        help="temperature [°C], 0-300 (default 25)",
+        help="temperature [°C], 0-350 along saturation, to 600 with --pressure (default 25)",
     )
     g.add_argument(
         "--pressure",
         type=_positive_float,
         metavar="BAR",
-        help="pressure [bar], up to 1000 (default 1, or saturation above 100 °C)",
+        help="pressure [bar], up to 5000 (default 1, or saturation above 100 °C)",
     )
     g.add_argument(
         "--ionic-strength",
@@ -410,6 +410,10 @@ def cmd_lines(a):
     print(
         f"Boundaries of {'-'.join(c.elements)} at {c.temperature_c:g} °C, potentials vs {ref}; k = {rows[0]['nernst_v'] if rows else 0:.5f} V"
     )
+    if (c.temperature_c, c.pressure_bar) != (25.0, 1.0):
+        print(f"ΔG of each species at {c.temperature_c:g} °C, {c.pressure_bar:.4g} bar from:")
+        for se in dmap.species:
+            print(f"    {se.species.name:<14} {se.route}")
     for i, r in enumerate(rows, 1):
         print(f"\n{i:2d}. {r['between'][0]}  |  {r['between'][1]}")
         if r.get("reaction"):
@@ -447,6 +451,7 @@ def cmd_species(a):
         raise OptionError(
             f"no species of {' '.join(a.element)} in the tables (data set {table.dataset})"
         )
+    routes, route_t = _species_routes(table, rows, a.temperature, a.pressure)
     if a.json:
         out = []
         for s in rows:
@@ -458,10 +463,14 @@ def cmd_species(a):
                 "dgf_kj_mol": s.dgf_kj_mol,
                 "source": s.source,
             }
-            for k in ("dhf_kj_mol", "s_j_molk", "cp_j_molk"):
+            for k in ("dhf_kj_mol", "s_j_molk", "cp_j_molk", "v_cm3_mol", "hkf_source"):
                 v = getattr(s, k)
                 if v is not None:
                     d[k] = v
+            if s.hkf is not None:
+                d["hkf"] = dict(zip(HKF_NAMES, s.hkf, strict=True))
+            d["route"] = routes[s.key]
+            d["route_at"] = route_t
             d["metastable"] = s.metastable
             d["note"] = s.note
             d["origin"] = s.origin
@@ -472,18 +481,38 @@ def cmd_species(a):
         f"{len(rows)} species with {' '.join(a.element)} (data set {table.dataset}; ΔfG° at 25 °C, kJ/mol)"
     )
     w = max(len(s.name) for s in rows)
-    print(f"{'species':<{w}}  phase  {'ΔfG°':>10}  {'ΔfH°':>10}  {'S°':>8}  source      note")
+    print(f"route: how ΔG is carried to {route_t}")
+    rw = max(len(r) for r in routes.values())
+    print(
+        f"{'species':<{w}}  phase  {'ΔfG°':>10}  {'ΔfH°':>10}  {'S°':>8}  {'route':<{rw}}  source      note"
+    )
     for s in rows:
         dh = "" if s.dhf_kj_mol is None else f"{s.dhf_kj_mol:10.2f}"
         so = "" if s.s_j_molk is None else f"{s.s_j_molk:8.2f}"
         note = ("[metastable] " if s.metastable else "") + (s.note or "")
         print(
-            f"{s.name:<{w}}  {s.phase:<5}  {s.dgf_kj_mol:10.2f}  {dh:>10}  {so:>8}  {s.source:<10}  {note}"
+            f"{s.name:<{w}}  {s.phase:<5}  {s.dgf_kj_mol:10.2f}  {dh:>10}  {so:>8}  "
+            f"{routes[s.key]:<{rw}}  {s.source:<10}  {note}"
         )
     print("\nsources:")
     for key in sorted({s.source for s in rows}):
         print(f"  {key}: {table.sources.get(key, '(user-provided)')}")
     return 0
+
+
+HKF_NAMES = ("a1_cal_mol_bar", "a2_cal_mol", "a3_cal_k_mol_bar", "a4_cal_k_mol", "c1_cal_mol_k", "c2_cal_k_mol", "omega_cal_mol")
+
+
+def _species_routes(table, rows, temperature_c, pressure_bar):
+    """Route each species takes to (T, P); at 25 °C and 1 bar, the route it takes to 100 °C."""
+    from pourbaix.physics import energies
+
+    t = float(temperature_c)
+    if t == 25.0 and pressure_bar in (None, 1.0):
+        t = 100.0
+    ctx = energies.make_context(table, t, pressure_bar)
+    routes = {s.key: energies.species_gibbs_at(s, ctx)[1] for s in rows}
+    return routes, f"{t:g} °C, {ctx.pressure_bar:.4g} bar"
 
 
 def cmd_references(a):
@@ -632,6 +661,14 @@ def build_parser():
     sp.add_argument("element", nargs="*", help="element symbol(s); `pourbaix elements` lists them")
     sp.add_argument("--dataset", default="default")
     sp.add_argument("--data", action="append", default=[], metavar="FILE")
+    sp.add_argument(
+        "--temperature",
+        type=_float,
+        default=25.0,
+        metavar="C",
+        help="show the route each species takes to this temperature [°C] (default: to 100 °C)",
+    )
+    sp.add_argument("--pressure", type=_positive_float, metavar="BAR", help="pressure [bar]")
     sp.add_argument("--json", action="store_true")
     sp.set_defaults(func=cmd_species)
 

@@ -238,7 +238,18 @@ def route_warnings(energies_list, temperature_c, warn):
     """
     if temperature_c == 25.0:
         return
-    past = [se.species.name for se in energies_list if temperature_c > se.valid_to_c]
+    stuck = [se.species.name for se in energies_list if se.route == "no entropy: 25 °C value"]
+    if stuck:
+        warn.append(
+            f"these species keep their 25 °C ΔG at {temperature_c:g} °C (no S° in the tables and "
+            "no estimate: no route to temperature), so their domains here are unreliable: "
+            + ", ".join(stuck)
+        )
+    past = [
+        se.species.name
+        for se in energies_list
+        if temperature_c > se.valid_to_c and se.route != "no entropy: 25 °C value"
+    ]
     if past:
         warn.append(
             f"at {temperature_c:g} °C these species are past the range their temperature route is trusted for: "

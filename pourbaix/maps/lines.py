@@ -50,7 +50,9 @@ def boundary_equations(dmap):
         ``electrons``, ``h_plus``, ``e0_v_she`` (E0 at the map's temperature,
         unit activities; None for an electron-free reaction), ``log_k`` (for
         electron-free reactions), ``nernst`` (text), ``line`` (text, vs the
-        map's reference), ``e_at_ph0_v``, ``slope_v_per_ph``, ``ph``.
+        map's reference), ``e_at_ph0_v``, ``slope_v_per_ph``, ``ph``, and
+        ``routes``: for each side that is a single species, how its ΔG at the
+        map's (T, P) was obtained (e.g. "fitted HKF", "Maier–Kelley").
 
     Notes
     -----
@@ -85,6 +87,7 @@ def boundary_equations(dmap):
             sign = "-" if slope < 0 else "+"
             row["line"] = f"E = {b.e_at_ph0_v:+.4f} {sign} {abs(slope):.5f} pH  (V vs {ref})"
         a_name, b_name = b.between
+        row["routes"] = {n: by_name[n].route for n in b.between if n in by_name}
         if a_name in by_name and b_name in by_name and len(c.elements) == 1 and not c.ligands:
             sa, sb = by_name[a_name], by_name[b_name]
             try:

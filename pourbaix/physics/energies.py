@@ -21,7 +21,7 @@ here carry that species' own plane, so the subtraction stays linear.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
@@ -33,6 +33,9 @@ __all__ = [
     "SpeciesEnergy",
     "EnergyContext",
     "aqueous_route_of",
+    "entropy_estimates",
+    "species_gibbs_at",
+    "oxide_sum_entropy",
     "make_context",
     "context_for",
     "reference_species",
@@ -68,6 +71,9 @@ class EnergyContext:
         Apparent Gibbs energy of each element's reference species at T [kJ/mol].
     aqueous_route : str
         ``"hkf"`` or ``"criss-cobble"`` (see :func:`~pourbaix.physics.thermo.species_gibbs`).
+    entropy_estimates : dict
+        ``(name, phase)`` -> ``(S° [J/(mol K)], how)`` for species the tables
+        give without S° (:func:`entropy_estimates`).
     """
 
     temperature_c: float
@@ -79,6 +85,7 @@ class EnergyContext:
     water_activity: float
     element_g_kj: dict
     aqueous_route: str = "hkf"
+    entropy_estimates: dict = field(default_factory=dict)
 
 
 @dataclass(frozen=True)
@@ -118,6 +125,138 @@ def _gibbs(sp, temperature_c, pressure_bar=1.0, aqueous_route="hkf"):
         return sp.dgf_kj_mol, "25 °C value", float("inf")
     res = thermo.species_gibbs(sp, temperature_c, pressure_bar, aqueous_route)
     return float(res.dg_kj_mol), res.route, float(res.valid_to_c)
+
+
+def entropy_estimates(table):
+    """S° estimates for the tables' hydroxide complexes that have none.
+
+    Parameters
+    ----------
+    table : SpeciesTable
+        Species tables.
+
+    Returns
+    -------
+    dict
+        ``(name, phase)`` -> ``(S° [J/(mol K)], how)``: oxyanions XO_n^z- by
+        Cobble's rule (:func:`pourbaix.physics.hkf.cobble_oxyanion_entropy`);
+        aqueous hydroxide complexes from the cation M^z+ of the same tables by the correlations
+        of Shock et al. (1997) (:func:`pourbaix.physics.hkf.estimate_hydroxo_entropy`);
+        solid hydroxides and oxyhydroxides as the sum of a tabulated oxide of
+        the same oxidation state and water (:func:`oxide_sum_entropy`).
+    """
+    from pourbaix.physics import hkf
+
+    cations = {}
+    for sp in table.species:
+        comp = dict(sp.composition)
+        if sp.phase == "aq" and len(comp) == 1 and sp.s_j_molk is not None and sp.charge > 0:
+            ((element, count),) = comp.items()
+            if count == 1 and not sp.form:
+                cations.setdefault((element, sp.charge), sp.s_j_molk)
+    found = {}
+    for sp in table.species:
+        if sp.phase != "aq" or sp.s_j_molk is not None:
+            continue
+        comp = dict(sp.composition)
+        if sp.charge < 0 and len(comp) == 2 and "O" in comp and "H" not in comp:
+            (central,) = set(comp) - {"O"}
+            if comp[central] == 1:
+                s = hkf.cobble_oxyanion_entropy(sp.charge, comp["O"])
+                found[sp.key] = (s, "S° by Cobble's oxyanion rule")
+                continue
+        form = hkf.hydroxo_form(comp, sp.charge)
+        if form is None or (form[0], form[1]) not in cations:
+            continue
+        removed = comp.get("O", 0) - comp.get("H", 0)
+        s = hkf.estimate_hydroxo_entropy(cations[form[0], form[1]], form[1], form[2], removed)
+        if s is not None:
+            found[sp.key] = (s, "S° from the cation")
+    for sp in table.species:
+        if sp.phase == "s" and sp.s_j_molk is None:
+            s = oxide_sum_entropy(sp, table)
+            if s is not None:
+                found[sp.key] = (s, "S° by oxide sum")
+    return found
+
+
+# Entropy of water bound in crystalline hydrates and hydroxides, the "ice-like" value
+# of Latimer (1952, The Oxidation States of the Elements, 2nd ed.; from memory)
+_S_BOUND_WATER_J_MOLK = 39.3
+
+
+def oxide_sum_entropy(species, table):
+    """S° of a solid hydroxide as a tabulated oxide plus bound water (solid-solid ΔS ≈ 0).
+
+    Parameters
+    ----------
+    species : Species
+        A solid M_a O_o H_h without S°.
+    table : SpeciesTable
+        Species tables.
+
+    Returns
+    -------
+    float or None
+        S° [J/(mol K)], or None when no oxide of the same metal and oxidation
+        state with S° is tabulated.
+
+    Notes
+    -----
+    M_a O_o H_h = (a/a') M_a' O_o' H_h' + k H2O(bound); S° = (a/a') S°' + k × 39.3
+    J/(mol K): entropies of reactions among solids are small (Fyfe, Turner &
+    Verhoogen 1958; Helgeson et al. 1978, Am. J. Sci. 278-A), and water bound
+    in solids carries about 39.3 J/(mol K) (Latimer 1952; from memory). E.g.
+    Zn(OH)2 from ZnO (43.65): 82.9 J/(mol K).
+    """
+    comp = dict(species.composition)
+    metals = [e for e in comp if e not in ("H", "O")]
+    if len(metals) != 1 or species.charge != 0:
+        return None
+    metal = metals[0]
+    a, o, h = comp[metal], comp.get("O", 0), comp.get("H", 0)
+    best = None
+    for other in table.species:
+        if other.phase != "s" or other.s_j_molk is None or other is species:
+            continue
+        oc = dict(other.composition)
+        if set(oc) - {"H", "O"} != {metal}:
+            continue
+        ratio = a / oc[metal]
+        water = o - ratio * oc.get("O", 0)
+        if water <= 0 or abs(h - ratio * oc.get("H", 0) - 2 * water) > 1e-9:
+            continue
+        s = ratio * other.s_j_molk + water * _S_BOUND_WATER_J_MOLK
+        if best is None or (best[0] and not other.metastable):
+            best = (other.metastable, s)
+    return None if best is None else best[1]
+
+
+def species_gibbs_at(sp, ctx):
+    """Apparent Gibbs energy of a table row at the context's (T, P), with its route.
+
+    Parameters
+    ----------
+    sp : Species
+        Table row.
+    ctx : EnergyContext
+        Conditions.
+
+    Returns
+    -------
+    tuple
+        ``(dg_kj_mol, route, valid_to_c)`` as :func:`thermo.species_gibbs`; a
+        species the tables give without S° uses the context's estimate of it
+        (named in the route).
+    """
+    estimate = ctx.entropy_estimates.get(getattr(sp, "key", None))
+    if estimate is None:
+        return _gibbs(sp, ctx.temperature_c, ctx.pressure_bar, ctx.aqueous_route)
+    with_s = replace(sp, s_j_molk=estimate[0])
+    dg, route, valid = _gibbs(with_s, ctx.temperature_c, ctx.pressure_bar, ctx.aqueous_route)
+    if route != "25 °C value":
+        route += f", {estimate[1]}"
+    return dg, route, valid
 
 
 def aqueous_route_of(table):
@@ -219,6 +358,7 @@ def _context(table, t, props, nernst_v, water_activity, elements):
         water_activity=water_activity,
         element_g_kj=element_g,
         aqueous_route=route,
+        entropy_estimates=entropy_estimates(table) if route == "hkf" else {},
     )
 
 
@@ -315,7 +455,7 @@ def species_energy(sp, element, ctx, activity=1.0, gamma=1.0, ligand_elements=()
             f"species {sp.name} holds {', '.join(sorted(extra))}, outside the system"
         )
     h, o, z = comp.get("H", 0), comp.get("O", 0), sp.charge
-    dg, route, valid = _gibbs(sp, ctx.temperature_c, ctx.pressure_bar, ctx.aqueous_route)
+    dg, route, valid = species_gibbs_at(sp, ctx)
     k = ctx.nernst_v
     n_h = 2 * o - h
     n_e = 2 * o - h + z

@@ -41,6 +41,9 @@ __all__ = [
     "reference_born",
     "hkf_gibbs",
     "estimate_hkf",
+    "hydroxo_form",
+    "estimate_hydroxo_entropy",
+    "cobble_oxyanion_entropy",
 ]
 
 CAL = 4.184  # thermochemical calorie [J]
@@ -436,3 +439,126 @@ _VOLUME: dict[int, tuple[float, float, float]] = {
     2: (0.00486, -770.42, 8.7097),
     3: (-0.28962, -1471.425, 11.52385),
 }
+
+
+# Shock et al. (1997, GCA 61, 907) correlate the entropies of hydroxide complexes
+# with those of their cations, one straight line per cation charge z and number of
+# hydroxide groups n (the complex written M(OH)n, i.e. with the water of MO, HMO2 ...
+# forms added back at S°(H2O, l) = 69.95 J/(mol K)). Coefficients: our regression
+# over the cation/complex pairs of speq21.dat as shipped with pygcc (at least 7 pairs
+# each; tests/test_hkf.py recomputes them). (z, n) -> (slope [-], intercept [J/(mol K)])
+_HYDROXO_ENTROPY: dict[tuple[int, int], tuple[float, float]] = {
+    (1, 1): (0.9569, 12.0457),
+    (2, 1): (0.9462, 62.7742),
+    (2, 2): (0.8811, 131.6708),
+    (2, 3): (1.2905, 131.3319),
+    (2, 4): (1.6008, 179.0963),
+    (3, 1): (1.3030, 241.7168),
+    (3, 2): (1.3174, 394.5971),
+    (3, 3): (1.4938, 578.8096),
+    (3, 4): (1.5293, 613.3047),
+}
+
+
+def hydroxo_form(composition, charge):
+    """Metal, cation charge and hydroxide count of a mononuclear hydroxide complex.
+
+    Parameters
+    ----------
+    composition : Mapping
+        Element -> count of the species.
+    charge : int
+        Charge of the species [-].
+
+    Returns
+    -------
+    tuple or None
+        ``(metal, cation_charge, n)`` for M(OH)n^(z-n) written with any amount of
+        water removed (MO, HMO2, MO2 ...), else None.
+
+    Examples
+    --------
+    >>> hydroxo_form({"Fe": 1, "O": 2, "H": 1}, -1)
+    ('Fe', 2, 3)
+    """
+    metals = [e for e in composition if e not in ("H", "O")]
+    if len(metals) != 1 or composition[metals[0]] != 1:
+        return None
+    oxygen, hydrogen = composition.get("O", 0), composition.get("H", 0)
+    n = 2 * oxygen - hydrogen  # M(OH)n - k H2O has O = n - k, H = n - 2k
+    if n <= 0 or oxygen - hydrogen < 0:
+        return None
+    return metals[0], int(charge) + n, n
+
+
+def estimate_hydroxo_entropy(parent_s_j_molk, parent_charge, n_hydroxide, water_removed=0):
+    """S° of a hydroxide complex from the S° of its cation (Shock et al. 1997 correlations).
+
+    Parameters
+    ----------
+    parent_s_j_molk : float
+        S° of the cation M^z+ [J/(mol K)].
+    parent_charge : int
+        z [-].
+    n_hydroxide : int
+        Number of hydroxide groups n of M(OH)n [-].
+    water_removed : int
+        Waters k by which the species as written differs from M(OH)n [-].
+
+    Returns
+    -------
+    float or None
+        S° of the species as written [J/(mol K)]; None where no correlation exists.
+
+    References
+    ----------
+    Shock, E. L.; Sassani, D. C.; Willis, M.; Sverjensky, D. A. Geochim.
+    Cosmochim. Acta 61, 907-950 (1997).
+
+    Examples
+    --------
+    >>> round(estimate_hydroxo_entropy(-137.7, 2, 1), 1)
+    -67.5
+    """
+    coefficients = _HYDROXO_ENTROPY.get((int(parent_charge), int(n_hydroxide)))
+    if coefficients is None:
+        return None
+    slope, intercept = coefficients
+    # Shock et al. 1997 form: S°(complex) linear in S°(cation) per charge type
+    return slope * float(parent_s_j_molk) + intercept - 69.95 * water_removed
+
+
+def cobble_oxyanion_entropy(charge, oxygen_count):
+    """S° of an oxyanion XO_n^z- by Cobble's correlation.
+
+    Parameters
+    ----------
+    charge : int
+        Charge of the oxyanion (negative) [-].
+    oxygen_count : int
+        Number of oxygen atoms n [-].
+
+    Returns
+    -------
+    float
+        S° [J/(mol K)].
+
+    Notes
+    -----
+    S° = 43.5 - 46.5 (|z| - 0.28 n) cal/(mol K) (Cobble 1953; from memory).
+    It gives 36 cal/(mol K) for NO3- (tabulated 35.0), 49 for MnO4- (45.7),
+    2.6 for SO4^2- (4.8) and -44 for PO4^3- (-53; NBS82 values): a few
+    cal/(mol K), i.e. a few kJ/mol in ΔG at 300 °C.
+
+    References
+    ----------
+    Cobble, J. W. Empirical considerations of entropy. II. The entropies of
+    inorganic complex ions. J. Chem. Phys. 21, 1446-1450 (1953).
+
+    Examples
+    --------
+    >>> round(cobble_oxyanion_entropy(-1, 3) / CAL, 2)
+    36.06
+    """
+    # Cobble 1953: S = 43.5 - 46.5 (|z| - 0.28 n) [cal/(mol K)]
+    return (43.5 - 46.5 * (abs(int(charge)) - 0.28 * int(oxygen_count))) * CAL
