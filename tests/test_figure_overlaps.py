@@ -142,4 +142,4 @@ def test_caption_wraps_within_the_figure_and_typesets_formulas():
     assert len(text.splitlines()) >= 4
     # formulas in the warnings are typeset like the labels (FeOH⁺, not FeOH^+)
     assert "^" not in text
-    assert "FeOH⁺" in text or "Fe(OH)₂" in text
+    assert "FeOH⁺" in text or "Fe(OH)₂" in text or "Fe₂(OH)₂⁴⁺" in text

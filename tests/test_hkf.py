@@ -263,3 +263,53 @@ def test_oxide_sum_entropy_against_tabulated_hydroxides():
         estimate = oxide_sum_entropy(solid(formula, None), table)
         # the rule is rough: gibbsite is 16 J/(mol K) off, the others within 7
         assert estimate == pytest.approx(s, abs=17.0), formula
+
+
+# ------------------------------------------------------------------ Maier-Kelley with transitions
+
+
+def _mk_from_supcrt(row):
+    """(dG kJ, S J/K, V cm3, [(a, b, c) J units per phase], [(T_tr, dH_tr J, dV)]) of a speq21 row.
+
+    SUPCRT92 prints a, b x1e3, c x1e-5 of Cp = a + bT + c/T² in calories (Johnson et al. 1992).
+    """
+    phases, transitions = [], []
+    rest = row[6:]
+    while True:
+        a, b, c = rest[0], rest[1], rest[2]
+        phases.append((a * CAL, b * 1e-3 * CAL, c * 1e5 * CAL))
+        if len(rest) < 8:
+            break
+        t_tr, h_tr, v_tr = rest[3], rest[4], rest[5]
+        transitions.append((t_tr, h_tr * CAL, v_tr))
+        rest = rest[7:]
+    return row[2] * CAL / 1000, row[4] * CAL, row[5], phases, transitions
+
+
+@pytest.mark.parametrize(
+    "name", ["Magnetite", "Hematite", "Bunsenite", "Nickel", "Pyrrhotite", "Chalcocite", "Cuprite"]
+)
+def test_maier_kelley_with_transitions_against_pygcc(database, name):
+    # pygcc's SUPCRT92 route for minerals (Helgeson et al. 1978 parameters, same file)
+    from types import SimpleNamespace
+
+    heatcap = species_eos.heatcap
+    g0, s0, volume, phases, transitions = _mk_from_supcrt(database[name])
+    tmax = database[name][-1]
+    trs = [
+        SimpleNamespace(
+            t_k=t, dh_j_mol=h, dv_cm3_mol=v, mk_a_j_molk=a, mk_b_j_molk2=b, mk_c_jk_mol=c
+        )
+        for (t, h, v), (a, b, c) in zip(transitions, phases[1:], strict=True)
+    ]
+    for t_c in (100.0, 200.0, 250.0, 300.0, 350.0, 450.0, 600.0):
+        if t_c + 273.15 > tmax:
+            continue
+        ref = heatcap(T=t_c, P=1.0, Species=name, Species_ppt=database[name], method="SUPCRT")
+        ours, _ = thermo.heat_capacity_gibbs(g0, s0, t_c, phases[0], trs)
+        assert ours == pytest.approx(float(np.ravel(ref.dG)[0]) * CAL / 1000, abs=0.05), t_c
+    # the volume term V(P - Pr) at 1000 bar (below the first transition)
+    ref = heatcap(T=100.0, P=1000.0, Species=name, Species_ppt=database[name], method="SUPCRT")
+    ours = thermo.heat_capacity_gibbs(g0, s0, 100.0, phases[0], trs)[0]
+    ours += volume * 999.0 * 0.1 / 1000
+    assert ours == pytest.approx(float(np.ravel(ref.dG)[0]) * CAL / 1000, abs=0.05)

@@ -511,8 +511,13 @@ def test_ratio_map_at_temperature_agrees_with_linprog():
     m = compute_map(["Fe", "Cr"], ratio=(3, 1), temperature_c=t, table=TABLE)
     kt = R_KJ * (t + 273.15) * math.log(10) / FARADAY_KJ
 
+    from pourbaix.physics import energies
+
+    ctx = energies.make_context(TABLE, t)
+
     def g(sp):
-        return float(thermo.species_gibbs(sp, t).dg_kj_mol)
+        # the species' route at T, with the tables' S° estimates (energies.entropy_estimates)
+        return float(energies.species_gibbs_at(sp, ctx)[0])
 
     g_w = G_WATER + float(thermo.water_gibbs(t, 1.0) - thermo.water_gibbs(25.0, 1.0))
     g_e = g(TABLE.get("H2", "g")) / 2  # SHE convention: H+ at 0, e- at half H2

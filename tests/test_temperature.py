@@ -89,9 +89,13 @@ def test_iron_magnetite_field_widens_with_temperature():
 
 
 def test_route_warnings_above_their_range():
+    # Fe2(OH)2^4+ has no S° in the tables and no estimate: it keeps its 25 °C value
     m = compute_map("Fe", temperature_c=250.0)
-    assert any("past the range" in w for w in m.warnings)
+    assert any("keep their 25 °C ΔG" in w and "Fe2(OH)2^4+" in w for w in m.warnings)
     assert m.to_dict()["warnings"]
+    # solids on a constant Cp are trusted to 350 °C
+    m = compute_map("Fe", temperature_c=400.0, pressure_bar=1000.0)
+    assert any("past the range" in w and "Fe3O4" in w for w in m.warnings)
 
 
 def test_molality_with_ionic_strength_uses_davies():

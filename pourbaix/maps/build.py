@@ -241,7 +241,7 @@ def route_warnings(energies_list, temperature_c, warn):
     stuck = [se.species.name for se in energies_list if se.route == "no entropy: 25 °C value"]
     if stuck:
         warn.append(
-            f"these species keep their 25 °C ΔG at {temperature_c:g} °C (no S° in the tables and "
+            f"at {temperature_c:g} °C these species keep their 25 °C ΔG (no S° in the tables and "
             "no estimate: no route to temperature), so their domains here are unreliable: "
             + ", ".join(stuck)
         )
