@@ -95,3 +95,30 @@ def test_pressure_moves_solids_only_with_a_volume():
     water = [se for se in m2.species if se.species.name == "H2O"]
     # V(H2O) = 18.07 cm3/mol: about +1.8 kJ/mol for 999 bar (common practice estimate)
     assert water[0].dg_kj_mol - (-237.129) == pytest.approx(1.78, abs=0.05)
+
+
+def test_compare_hkf_against_criss_cobble(capsys):
+    # the older routes stay available as the data set "criss-cobble"; at 150 °C the
+    # Fe2+/Fe line moves between the two (different Cp of Fe2+), at 25 °C it does not
+    code, out, err = run(
+        capsys,
+        "compare",
+        "Fe",
+        "--temperature",
+        "150",
+        "--against-dataset",
+        "criss-cobble",
+        "--json",
+    )
+    assert code == 0, err
+    doc = json.loads(out)
+    text = json.dumps(doc)
+    assert "criss-cobble" in text
+    m_hkf = compute_map("Fe", temperature_c=150.0)
+    m_cc = compute_map("Fe", temperature_c=150.0, dataset="criss-cobble")
+    r_hkf = {se.species.name: se.route for se in m_hkf.species}
+    r_cc = {se.species.name: se.route for se in m_cc.species}
+    assert r_hkf["Fe^2+"] == "estimated HKF" and r_cc["Fe^2+"] == "Criss–Cobble"
+    line = {tuple(sorted(b.between)): b.e_at_ph0_v for b in m_hkf.boundaries if b.ph is None}
+    line_cc = {tuple(sorted(b.between)): b.e_at_ph0_v for b in m_cc.boundaries if b.ph is None}
+    assert line[("Fe", "Fe^2+")] != pytest.approx(line_cc[("Fe", "Fe^2+")], abs=1e-4)

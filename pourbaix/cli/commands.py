@@ -16,7 +16,9 @@ SAFETY = (
     "Safety: a map is a thermodynamic prediction (equilibrium only). It says nothing about rates, "
     "film quality, pitting, crevices, stress corrosion or microbiology. Cathodic-protection "
     "criteria, drinking-water decisions and leach chemistries (cyanide, strong acids, sulfide/H2S) "
-    "are for local codes, the applicable standards and licensed practice to decide."
+    "are for local codes, the applicable standards and licensed practice to decide. Hot "
+    "pressurised water (boilers, autoclaves, geothermal brines) is a pressure-vessel hazard: "
+    "equipment is designed, inspected and run under the applicable pressure-equipment codes."
 )
 
 _OUT_KINDS = (".png", ".svg", ".pdf", ".json", ".csv", ".html")

@@ -366,8 +366,9 @@ def estimate_hkf(s_j_molk, charge, cp_j_molk=None):
       Shock et al. (1997, GCA 61, 907) and Sverjensky, Shock & Helgeson (1997,
       GCA 61, 1359); for neutral species ω = -1514.4 S° + 34393 (Shock,
       Helgeson & Sverjensky 1989, GCA 53, 2157, eq. 62), bounded to
-      ±0.4e5 cal/mol, the span of the inorganic neutral species of the
-      SUPCRT-family file. The β_Z values (109030, 213560, 319520, 432920 cal/mol
+      ±0.4e5 cal/mol (the carbon-free neutral species of the SUPCRT-family
+      file span -0.34e5 to +0.09e5 between their 5th and 95th percentiles).
+      The β_Z values (109030, 213560, 319520, 432920 cal/mol
       for abs(Z) = 1-4) are the medians of ω_abs + 1514.4 S° over the ions of the
       SUPCRT-family file speq21.dat (shipped with pygcc), whose interquartile
       ranges are ±200 cal/mol: that file's ions follow this correlation.
