@@ -22,7 +22,7 @@ import numpy as np
 
 from pourbaix.constants import F_KJ as _FARADAY_KJ
 from pourbaix.errors import ConditionsError, OptionError, UnknownSpeciesError
-from pourbaix.physics import energies, thermo
+from pourbaix.physics import energies
 
 __all__ = ["MassBalanceSystem", "parse_totals", "build_system", "ligand_species"]
 
@@ -312,7 +312,7 @@ def build_system(
     for el in (*metals, *lig_elements):
         ref = energies.reference_species(table, el)
         n = dict(ref.composition)[el]
-        g = ref.dgf_kj_mol if t == 25.0 else float(thermo.species_gibbs(ref, t).dg_kj_mol)
+        g = float(energies.species_gibbs_at(ref, ctx)[0])  # route at the context's (T, P)
         g_atom[el] = g / n
     excluded = set()
     for n in exclude:

@@ -378,7 +378,7 @@ class _Energies:
 
 
 def _energies(half: HalfReaction, table: SpeciesTable, temperature_c: float, pressure_bar=None):
-    from pourbaix.physics.energies import aqueous_route_of, make_context
+    from pourbaix.physics.energies import make_context, species_gibbs_at
 
     t = float(thermo.check_temperature(temperature_c))
     ctx = make_context(table, t, pressure_bar)
@@ -390,8 +390,8 @@ def _energies(half: HalfReaction, table: SpeciesTable, temperature_c: float, pre
         if sp.phase == "l" and dict(sp.composition) == {"H": 2, "O": 1}:
             g, route, upto = ctx.g_water_kj, "IAPWS-95 (liquid water)", thermo.T_MAX_C
         else:
-            res = thermo.species_gibbs(sp, t, ctx.pressure_bar, aqueous_route_of(table))
-            g, route, upto = float(res.dg_kj_mol), res.route, float(res.valid_to_c)
+            # the route at the context's (T, P), with the tables' S° estimates
+            g, route, upto = species_gibbs_at(sp, ctx)
         by_key[sp.key] = g
         routes[str(sp)] = route
         valid = min(valid, upto)
@@ -501,14 +501,12 @@ def water_ion_product_log10(
     -----
     H2O = H+ + OH-:  log10 Kw = -(G(OH-) - G(H2O)) / (R T ln 10)  (van 't Hoff isotherm).
     """
-    from pourbaix.physics.energies import aqueous_route_of, make_context
+    from pourbaix.physics.energies import make_context, species_gibbs_at
 
     table = table if table is not None else load_species()
     t = float(thermo.check_temperature(temperature_c))
     ctx = make_context(table, t, pressure_bar)
-    oh = thermo.species_gibbs(
-        table.get("OH-"), t, ctx.pressure_bar, aqueous_route_of(table)
-    ).dg_kj_mol
+    oh = species_gibbs_at(table.get("OH-"), ctx)[0]
     return -(oh - ctx.g_water_kj) * 1000.0 / (R * (t + ZERO_C_K) * LN10)
 
 
