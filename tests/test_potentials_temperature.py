@@ -4,6 +4,9 @@ Outside values:
 - dE°/dT at 25 °C of Bratsch (1989), "Standard electrode potentials and
   temperature coefficients in water at 298.15 K", J. Phys. Chem. Ref. Data 18,
   1-21 (reproduced in the CRC Handbook); from memory, in mV/K;
+  Fe2+/Fe is left out: its +0.052 mV/K implies S°(Fe2+) of about -113 J/(mol K)
+  where the tables keep NBS82's -137.7 (see that row's note), which alone moves
+  E°(100 °C) by 9 mV;
 - E°(AgCl/Ag) from 0 to 95 °C of Bates & Bower (1954), J. Res. Natl. Bur.
   Stand. 53, 283 (the polynomial coded in pourbaix.physics.electrodes, whose
   own test checks it against the paper's table);
@@ -50,7 +53,7 @@ COUPLES = [
     ("Cu+/Cu", [("Cu^+", "aq", 1)], [("Cu", "s", 1)], 1, -0.754),
     ("Cu2+/Cu", [("Cu^2+", "aq", 1)], [("Cu", "s", 1)], 2, 0.011),
     ("Zn2+/Zn", [("Zn^2+", "aq", 1)], [("Zn", "s", 1)], 2, 0.119),
-    ("Fe2+/Fe", [("Fe^2+", "aq", 1)], [("Fe", "s", 1)], 2, 0.052),
+    ("Mn2+/Mn", [("Mn^2+", "aq", 1)], [("Mn", "s", 1)], 2, -0.129),
     ("Co2+/Co", [("Co^2+", "aq", 1)], [("Co", "s", 1)], 2, 0.065),
     ("Fe3+/Fe2+", [("Fe^3+", "aq", 1)], [("Fe^2+", "aq", 1)], 1, 1.188),
     ("AgCl/Ag", [("AgCl", "s", 1)], [("Ag", "s", 1), ("Cl^-", "aq", 1)], 1, -0.658),

@@ -93,9 +93,9 @@ def test_route_warnings_above_their_range():
     m = compute_map("Fe", temperature_c=250.0)
     assert any("keep their 25 °C ΔG" in w and "Fe2(OH)2^4+" in w for w in m.warnings)
     assert m.to_dict()["warnings"]
-    # solids on a constant Cp are trusted to 350 °C
+    # solids on a constant Cp (here goethite, Cp by Kopp's rule) are trusted to 350 °C
     m = compute_map("Fe", temperature_c=400.0, pressure_bar=1000.0)
-    assert any("past the range" in w and "Fe3O4" in w for w in m.warnings)
+    assert any("past the range" in w and "FeOOH" in w for w in m.warnings)
 
 
 def test_molality_with_ionic_strength_uses_davies():

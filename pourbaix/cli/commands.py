@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+import dataclasses
 import json
 import math
 import sys
@@ -470,7 +471,7 @@ def cmd_species(a):
                 if v is not None:
                     d[k] = v
             if s.hkf is not None:
-                d["hkf"] = dict(zip(HKF_NAMES, s.hkf, strict=True))
+                d["hkf"] = dict(zip(HKF_NAMES, dataclasses.astuple(s.hkf), strict=True))
             d["route"] = routes[s.key]
             d["route_at"] = route_t
             d["metastable"] = s.metastable

@@ -733,6 +733,10 @@ def species_gibbs(species_like, temperature_c, pressure_bar=None, aqueous_route=
         tmax_k = _attr(species_like, "mk_tmax_k")
         valid = math.inf if tmax_k is None else float(tmax_k) - 273.15
         transitions = _transitions_of(species_like) if phase != "aq" else ()
+        if transitions and tmax_k is not None and transitions[0].t_k <= float(tmax_k) + 1e-9:
+            # mk_tmax_k ends the first phase's fit; the transitions carry the phases above
+            # (their own upper limits, 1000 K and more in Helgeson et al. 1978, lie beyond the tool)
+            valid = math.inf
         dg, crossed = heat_capacity_gibbs(dgf, s, t, mk, transitions)
         route = "Maier–Kelley" + (" with transitions" if crossed else "")
         if phase in ("s", "l"):

@@ -693,12 +693,17 @@ def _with_parameters(header: list[str], rows: list[list[str]], index, transition
         if entry is not None:
             got = index.columns(entry)
             keep = any(values.get(c) for c in PARAMETER_COLUMNS if c != "hkf_source")
+            # a row filled by an earlier run holds the same values: its transitions still belong
+            # in the transition table (else a re-run would drop them)
+            same = bool(got) and all(
+                values.get(c, "") == v for c, v in got.items() if c != "hkf_source"
+            )
             if got and not keep:
                 values.update(got)
                 if got.get("hkf_source") == values.get("source"):
                     values["hkf_source"] = ""
-                if entry.phase == "s" and entry.transitions:
-                    transitions += index.transitions(entry, formula, values.get("form", ""))
+            if got and (same or not keep) and entry.phase == "s" and entry.transitions:
+                transitions += index.transitions(entry, formula, values.get("form", ""))
         out.append([values.get(c, "") for c in cols])
     return cols, out
 
