@@ -245,7 +245,7 @@ def species_gibbs_at(sp, ctx):
     Returns
     -------
     tuple
-        ``(dg_kj_mol, route, valid_to_c)`` as :func:`thermo.species_gibbs`; a
+        ``(dg_kj_mol, route, valid_to_c)`` as :func:`~pourbaix.physics.thermo.species_gibbs`; a
         species the tables give without S° uses the context's estimate of it
         (named in the route).
     """

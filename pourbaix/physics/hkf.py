@@ -546,7 +546,7 @@ def cobble_oxyanion_entropy(charge, oxygen_count):
 
     Notes
     -----
-    S° = 43.5 - 46.5 (|z| - 0.28 n) cal/(mol K) (Cobble 1953; from memory).
+    S° = 43.5 - 46.5 (abs(z) - 0.28 n) cal/(mol K) (Cobble 1953; from memory).
     It gives 36 cal/(mol K) for NO3- (tabulated 35.0), 49 for MnO4- (45.7),
     2.6 for SO4^2- (4.8) and -44 for PO4^3- (-53; NBS82 values): a few
     cal/(mol K), i.e. a few kJ/mol in ΔG at 300 °C.
