@@ -43,6 +43,7 @@ __all__ = [
     "SeriesEntry",
     "SeriesResult",
     "electrochemical_series",
+    "simple_ion_couples",
     "describe_half_reaction",
     "Electrode",
     "parse_electrode",
@@ -317,6 +318,87 @@ def _entry(label, half, table, temperature_c, pressure_bar, state, offset, log_k
     )
 
 
+def _identity(half: HalfReaction):
+    """A key that is the same for one reduction however it is scaled."""
+    n = half.electrons
+    return tuple(sorted((k, round(v / n, 9)) for k, v in half.stoichiometry().items()))
+
+
+def _ion_label(sp) -> str:
+    return sp.name.replace("^", "")
+
+
+def simple_ion_couples(table: SpeciesTable) -> list:
+    """Metal/ion and ion/ion couples of every element, built from the tables' simple ions.
+
+    Parameters
+    ----------
+    table : SpeciesTable
+        The tables.
+
+    Returns
+    -------
+    list of (str, HalfReaction)
+        For each element E with a reference state (ΔfG° = 0) and simple
+        aqueous ions E^z (one atom, no H or O): ``E^z+ + z e- = E`` for
+        cations, ``E + |z| e- = E^z-`` for anions (per atom of a molecular
+        reference state such as Cl2), and ``E^a+ + (a-b) e- = E^b+`` between
+        each pair of cations. Metastable rows are left out.
+
+    Examples
+    --------
+    >>> labels = [label for label, _ in simple_ion_couples(load_species())]
+    >>> "Zn2+/Zn" in labels and "Fe3+/Fe2+" in labels
+    True
+    """
+    from pourbaix.physics.energies import reference_species
+    from pourbaix.physics.reactions import balance_pair
+
+    out = []
+    elements = sorted(
+        {
+            e
+            for sp in table.species
+            if sp.phase == "aq" and len(sp.composition) == 1
+            for e in sp.composition
+        }
+        - {"H", "O"}
+    )
+    for element in elements:
+        ions = sorted(
+            (
+                sp
+                for sp in table.species
+                if sp.phase == "aq"
+                and dict(sp.composition) == {element: 1}
+                and sp.charge != 0
+                and not sp.metastable
+            ),
+            key=lambda sp: -sp.charge,
+        )
+        try:
+            ref = reference_species(table, element)
+        except Exception:  # DataError: no reference state, ion/ion couples only
+            ref = None
+        pairs = []
+        if ref is not None:
+            for ion in ions:
+                ox, red = (ion, ref) if ion.charge > 0 else (ref, ion)
+                pairs.append((f"{_ion_label(ox)}/{_ion_label(red)}", ox, red))
+        cations = [sp for sp in ions if sp.charge > 0]
+        for i, high in enumerate(cations):
+            for low in cations[i + 1 :]:
+                pairs.append((f"{_ion_label(high)}/{_ion_label(low)}", high, low))
+        for label, ox, red in pairs:
+            try:
+                reaction = balance_pair(ox, red, element)
+            except Exception:  # DataError: cannot be balanced with H2O, H+ and e-
+                continue
+            if reaction.electrons > 0:
+                out.append((label, from_reaction(reaction, table)))
+    return out
+
+
 def _label_of(half: HalfReaction) -> str:
     main = [sp for sp, _ in half.oxidised if sp.name not in ("H^+", "H2O")]
     low = [sp for sp, _ in half.reduced if sp.name not in ("OH^-", "H2O")]
@@ -346,6 +428,7 @@ def electrochemical_series(
     dataset: str = "default",
     data_files: Sequence = (),
     pressure_bar: float | None = None,
+    automatic: bool = True,
 ) -> SeriesResult:
     """The reduction couples the tables support, with E° (and formal E) at T on any reference.
 
@@ -371,6 +454,9 @@ def electrochemical_series(
         User species tables.
     pressure_bar : float, optional
         Pressure [bar].
+    automatic : bool
+        Add the simple-ion couples of every element the tables hold
+        (:func:`simple_ion_couples`) to the listed :data:`SERIES`.
 
     Returns
     -------
@@ -427,6 +513,12 @@ def electrochemical_series(
                 halves.append((label, parse_half_reaction(text, table)))
             except UnknownSpeciesError:
                 skipped.append(label)
+        if automatic:
+            known = {_identity(h) for _, h in halves}
+            for label, half in simple_ion_couples(table):
+                if _identity(half) not in known:
+                    known.add(_identity(half))
+                    halves.append((label, half))
     log_kw = water_ion_product_log10(t, table, pressure_bar)
     k = float(thermo.nernst_factor(t))
     entries = []
