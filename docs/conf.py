@@ -61,4 +61,6 @@ numpydoc_xref_param_type = False
 numpydoc_validation_checks = set()
 
 pygments_style = "default"
+# Option names such as --ph must stay two hyphens (no typographic dashes or quotes).
+smartquotes = False
 html_math_renderer = "pourbaix-svg"

@@ -51,6 +51,13 @@ def _cell(text):
     return text or "—"
 
 
+def _cell_or_literal(value):
+    text = str(value)
+    if text.startswith("``") and text.endswith("``") and "``" not in text[2:-2]:
+        return text  # an inline literal, kept as written
+    return _cell(text)
+
+
 def _list_table(header, rows, widths=None, title=""):
     out = [f".. list-table:: {title}".rstrip(), "   :header-rows: 1"]
     if widths:
@@ -59,7 +66,7 @@ def _list_table(header, rows, widths=None, title=""):
     for row in [header, *rows]:
         first = True
         for value in row:
-            out.append(("   * - " if first else "     - ") + _cell(value))
+            out.append(("   * - " if first else "     - ") + _cell_or_literal(value))
             first = False
     return "\n".join(out) + "\n"
 
@@ -91,19 +98,20 @@ def _option_rows(parser):
             extra.append("choices: " + ", ".join(map(str, action.choices)))
         if action.required and action.option_strings:
             extra.append("required")
-        if action.default not in (None, False, argparse.SUPPRESS, []) and action.nargs != 0:
+        said = "default" in (action.help or "")
+        if action.default not in (None, False, argparse.SUPPRESS, []) and action.nargs != 0 and not said:
             default = action.default
             if isinstance(default, (list, tuple)):
                 default = " ".join(map(str, default))
             extra.append(f"default: {default}")
         help_text = (action.help or "") % {"default": action.default, "prog": parser.prog} if action.help else ""
-        rows.append((names, " ".join([help_text, *(f"({e})" for e in extra)]).strip()))
+        rows.append((f"``{names}``", " ".join([help_text, *(f"({e})" for e in extra)]).strip()))
     return rows
 
 
 def _help_text(parser):
     old = os.environ.get("COLUMNS")
-    os.environ["COLUMNS"] = "96"
+    os.environ["COLUMNS"] = "84"
     try:
         return parser.format_help()
     finally:
