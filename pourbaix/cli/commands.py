@@ -251,6 +251,30 @@ def _fmt_margin(v, unit):
     return f"{v * 1000:.0f} mV" if unit == "V" else f"{v:.2f} pH"
 
 
+
+def _add_uncertainty(parser):
+    """--uncertainty and --samples (pourbaix.analyses.uncertainty)."""
+    parser.add_argument(
+        "--uncertainty",
+        type=float,
+        nargs="?",
+        const=1.0,
+        default=None,
+        metavar="KJ",
+        help="sample the Gibbs energies (each row's stated standard uncertainty, else KJ "
+        "kJ/mol, default 1) and show the 95%% bands of the lines / the probability of each species",
+    )
+    parser.add_argument(
+        "--samples", type=int, default=200, help="number of sampled maps (default 200)"
+    )
+
+
+def _uncertain(a):
+    from pourbaix.analyses.uncertainty import sample_maps
+
+    return sample_maps(a.element, a.samples, a.uncertainty, **_map_kwargs(a))
+
+
 # ------------------------------------------------------------------ commands
 def cmd_map(a):
     """Draw and/or export a map."""
@@ -301,6 +325,10 @@ def cmd_map(a):
             palette=a.palette,
             notes=[widened[1]] if widened else (),
         )
+        if a.uncertainty is not None:
+            from pourbaix.plot.uncertainty import draw_bands
+
+            draw_bands(ax, _uncertain(a))
         if a.solubility_lines is not None:
             from pourbaix.analyses.solubility import DEFAULT_LEVELS, add_solubility_lines
 
@@ -395,6 +423,16 @@ def cmd_probe(a):
         print(
             "  (passivation: a solid is thermodynamically stable; whether it protects is a kinetic question)"
         )
+    if a.uncertainty is not None:
+        from pourbaix.analyses.uncertainty import species_probabilities
+
+        result = _uncertain(a)
+        print(
+            f"  probability of each species ({len(result.samples)} sampled maps; u(ΔfG°) as "
+            f"stated by {result.stated} of {result.perturbed} rows, else {a.uncertainty:g} kJ/mol):"
+        )
+        for name, share in species_probabilities(result, a.ph, a.potential).items():
+            print(f"    {share:6.1%}  {name}")
     return 0
 
 
@@ -623,6 +661,7 @@ def build_parser():
 
     add_balance_options(m)
     add_report_option(m)
+    _add_uncertainty(m)
     m.set_defaults(func=cmd_map, window=True)
 
     pr = sub.add_parser(
@@ -642,6 +681,7 @@ def build_parser():
         help="potential of the point [V vs --reference]",
     )
     pr.add_argument("--json", action="store_true", help="print JSON")
+    _add_uncertainty(pr)
     pr.set_defaults(func=cmd_probe, window=False)
 
     ln = sub.add_parser(

@@ -35,6 +35,7 @@ COLUMNS: dict[str, tuple[str, bool]] = {
     "phase": ("aq, s, l or g", True),
     "form": ("text", False),
     "dgf_kj_mol": ("kJ/mol", True),
+    "dgf_unc_kj_mol": ("kJ/mol", False),
     "dhf_kj_mol": ("kJ/mol", False),
     "s_j_molk": ("J/(mol K)", False),
     "cp_j_molk": ("J/(mol K)", False),
@@ -70,6 +71,7 @@ HKF_COLUMNS: tuple[str, ...] = (
 )
 _NUMERIC = (
     "dgf_kj_mol",
+    "dgf_unc_kj_mol",
     "dhf_kj_mol",
     "s_j_molk",
     "cp_j_molk",
@@ -165,6 +167,9 @@ class Species:
         Standard Gibbs energy of formation at 298.15 K, 1 bar [kJ/mol].
     dhf_kj_mol : float or None
         Standard enthalpy of formation [kJ/mol].
+    dgf_unc_kj_mol : float or None
+        Standard uncertainty of ``dgf_kj_mol`` as the source states it [kJ/mol]
+        (used by :mod:`pourbaix.analyses.uncertainty`).
     s_j_molk : float or None
         Standard entropy [J/(mol K)].
     cp_j_molk : float or None
@@ -211,6 +216,7 @@ class Species:
     source: str = ""
     note: str = ""
     origin: str = ""
+    dgf_unc_kj_mol: float | None = None
 
     @property
     def composition(self) -> Mapping[str, int]:
@@ -824,6 +830,7 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems) ->
         phase=phase,
         form=form,
         dgf_kj_mol=values["dgf_kj_mol"],
+        dgf_unc_kj_mol=values["dgf_unc_kj_mol"],
         dhf_kj_mol=values["dhf_kj_mol"],
         s_j_molk=values["s_j_molk"],
         cp_j_molk=values["cp_j_molk"],

@@ -1,0 +1,58 @@
+"""Draw the 95 % bands of a map's boundaries (from pourbaix.analyses.uncertainty)."""
+
+from __future__ import annotations
+
+__all__ = ["draw_bands"]
+
+
+def draw_bands(ax, result, resolution=160):
+    """Hatch the points no species holds with 97.5 % probability.
+
+    Parameters
+    ----------
+    ax : matplotlib.axes.Axes
+        The axes of the drawn nominal map (same window and reference).
+    result : UncertainMap
+        From :func:`pourbaix.analyses.uncertainty.sample_maps`.
+    resolution : int
+        Grid points per axis.
+
+    Returns
+    -------
+    matplotlib.axes.Axes
+
+    References
+    ----------
+    JCGM 101:2008 (Monte Carlo propagation; see pourbaix.analyses.uncertainty).
+    """
+    import matplotlib as mpl
+
+    from pourbaix.analyses.uncertainty import boundary_band
+
+    ph, potential, band = boundary_band(result, resolution)
+    with mpl.rc_context({"hatch.color": "#3a3a3a", "hatch.linewidth": 0.6}):
+        ax.contourf(
+            ph,
+            potential,
+            band.astype(float),
+            levels=[0.5, 1.5],
+            colors="none",
+            hatches=["////"],
+            zorder=2.5,
+        )
+    label = (
+        f"95 % band ({len(result.samples)} draws; u(ΔfG°) as stated, "
+        f"else {result.default_uncertainty_kj_mol:g} kJ/mol)"
+    )
+    ax.text(
+        0.99,
+        0.01,
+        "//// " + label,
+        transform=ax.transAxes,
+        ha="right",
+        va="bottom",
+        fontsize=7,
+        zorder=6,
+        bbox={"facecolor": "white", "edgecolor": "#3a3a3a", "linewidth": 0.5, "pad": 2.0},
+    )
+    return ax
