@@ -142,3 +142,39 @@ def test_registry_knows_the_new_models():
     assert solution.log_gamma(1, 1.0, model="pitzer") == pytest.approx(f / math.log(10), rel=1e-12)
     with pytest.raises(ConditionsError, match="25 °C"):
         solution.log_gamma(1, 1.0, temperature_c=60.0, model="pitzer")
+
+
+def test_sit_medium_terms_enter_the_mass_balanced_equilibrium():
+    # Cu2+ in 1 mol/kg NaCl by SIT: log g = -4 D(I) + eps(Cu2+, Cl-) x 1 mol/kg, eps = 0.08
+    # (NEA-TDB); at pH 2 and 0.8 V all the 1e-4 mol/kg copper is Cu2+ (no chloride ligand here)
+    from pourbaix.analyses.speciation import compute_speciation
+
+    r = compute_speciation(
+        "Cu",
+        {"Cu": 1e-4},
+        ph=2.0,
+        potential_range_v=(0.79, 0.81),
+        points=3,
+        background="NaCl=1",
+        activity_model="sit",
+    )
+    from pourbaix.physics.components import build_system
+    from pourbaix.physics.sit import system_medium_terms
+    from pourbaix.solve.equilibrium import solve_at
+
+    system = build_system("Cu", {"Cu": 1e-4})
+    terms, _ = system_medium_terms(system, "NaCl=1")
+    res = solve_at(
+        system,
+        2.0,
+        0.8,
+        activity_model="sit",
+        background_ionic_strength=1.0,
+        specific_log_gamma=terms,
+    )
+    i = res.ionic_strength
+    d = 0.509 * math.sqrt(i) / (1 + 1.5 * math.sqrt(i))
+    assert res.log_gamma[system.index("Cu^2+")] == pytest.approx(-4 * d + 0.08, abs=1e-12)
+    assert r.amounts[1, r.system.index("Cu^2+")] == pytest.approx(
+        res.amounts[system.index("Cu^2+")], rel=1e-9
+    )

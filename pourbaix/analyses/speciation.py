@@ -335,6 +335,14 @@ def compute_speciation(
         exclude=exclude,
     )
     model = conditions.activity_model if conditions.ionic_strength > 0 else None
+    notes = list(conditions.notes)
+    specific = None
+    if model == "sit" and background is not None:
+        from pourbaix.physics.sit import system_medium_terms
+
+        specific, missing = system_medium_terms(system, background)
+        if missing:
+            notes.append("SIT: no epsilon tabulated (taken as 0) for " + ", ".join(missing))
     x = np.linspace(lo, hi, points)
     amounts = np.zeros((points, len(system.names)))
     present = np.zeros((points, len(system.names)), dtype=bool)
@@ -351,9 +359,9 @@ def compute_speciation(
                 activity_model=model,
                 background_ionic_strength=conditions.ionic_strength,
                 start=r,
+                specific_log_gamma=specific,
             )
             amounts[n], present[n], ionic[n] = r.amounts, r.present, r.ionic_strength
-    notes = list(conditions.notes)
     if model is None:
         notes.append("ideal solution (activity = molality); give a background to apply a model")
     else:

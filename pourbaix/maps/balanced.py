@@ -369,6 +369,19 @@ def compute_balanced_map(
     warn = [*getattr(table, "overrides", ()), *conditions.notes]
     model = conditions.activity_model if conditions.ionic_strength > 0 else None
     background_i = conditions.ionic_strength
+    specific = None
+    if model == "sit" and background is not None:
+        from pourbaix.physics.sit import system_medium_terms
+
+        specific, missing = system_medium_terms(system, background)
+        warn.append(
+            "SIT: epsilon terms of each species with the background ions (NEA-TDB); "
+            + (
+                "no epsilon tabulated (taken as 0) for " + ", ".join(missing)
+                if missing
+                else "all tabulated"
+            )
+        )
     state = {"last": None, "max_i": 0.0}
 
     def solve(ph, e):
@@ -381,6 +394,7 @@ def compute_balanced_map(
                 activity_model=model,
                 background_ionic_strength=background_i,
                 start=state["last"],
+                specific_log_gamma=specific,
             )
         state["last"] = r
         state["max_i"] = max(state["max_i"], r.ionic_strength)

@@ -34,6 +34,8 @@ __all__ = [
     "sit",
     "mean_activity_coefficient",
     "log_gamma_long_range",
+    "medium_terms",
+    "system_medium_terms",
 ]
 
 WARN_ABOVE = 3.5  # [mol/kg] (NEA-TDB: SIT holds to about 3.5 mol/kg)
@@ -224,3 +226,79 @@ def log_gamma_long_range(charge, ionic_strength, temperature_c=25.0):
     from pourbaix.physics.solution import log_gamma
 
     return log_gamma(charge, ionic_strength, temperature_c, model="sit")
+
+
+def medium_terms(species, charges, medium, epsilon=None):
+    """sum_k epsilon(j, k) m_k of each species j in a background medium [-].
+
+    Parameters
+    ----------
+    species : sequence of str
+        Species names (formula notation, e.g. ``"Cu^2+"``, ``"CuCl^+"``).
+    charges : sequence of int
+        Their charges.
+    medium : sequence of (str, float, int)
+        Background ions ``(ion, molality, charge)`` as from
+        :func:`pourbaix.physics.solution.background_ions` [mol/kg].
+    epsilon : dict, optional
+        ``{(cation, anion): epsilon}`` [kg/mol]; default the NEA-TDB table.
+
+    Returns
+    -------
+    (list of float, list of str)
+        The terms, and the species with no tabulated epsilon against an
+        opposite-charged medium ion (taken as 0).
+
+    Examples
+    --------
+    >>> terms, _ = medium_terms(["Cu^2+"], [2], [("Na^+", 1.0, 1), ("Cl^-", 1.0, -1)])
+    >>> terms  # eps(Cu2+, Cl-) x 1 mol/kg (NEA-TDB)
+    [0.08]
+    """
+    eps = load_epsilon() if epsilon is None else epsilon
+    terms, missing = [], []
+    for name, z in zip(species, charges, strict=True):
+        total = 0.0
+        for ion, m, zk in medium:
+            if z * zk >= 0:
+                continue
+            pair = (name, ion) if z > 0 else (ion, name)
+            if pair in eps:
+                total += eps[pair] * m
+            elif name not in missing:
+                missing.append(name)
+        terms.append(total)
+    return terms, missing
+
+
+def system_medium_terms(system, background):
+    """SIT medium terms of every species of a mass-balance system in a background electrolyte.
+
+    Parameters
+    ----------
+    system : MassBalanceSystem
+        The system (names and charges of its species).
+    background : dict or str
+        Background salts [mol/kg], e.g. ``"NaCl=3"``.
+
+    Returns
+    -------
+    (numpy.ndarray, list of str)
+        sum_k eps(j, k) m_k per species (0 for solids) [-], and the dissolved
+        charged species with no tabulated epsilon.
+    """
+    import numpy as np
+
+    from pourbaix.physics import solution
+
+    salts = (
+        solution.parse_background(background) if isinstance(background, str) else dict(background)
+    )
+    medium = solution.background_ions(salts)
+    names = [n for n, aq in zip(system.names, system.aqueous, strict=True)]
+    terms, missing = medium_terms(names, [int(z) for z in system.charges], medium)
+    out = np.where(system.aqueous, terms, 0.0)
+    charged = {
+        n for n, z, aq in zip(system.names, system.charges, system.aqueous, strict=True) if aq and z
+    }
+    return out, [m for m in missing if m in charged]

@@ -434,6 +434,7 @@ def solve_at(
     activity_model=None,
     background_ionic_strength=0.0,
     start=None,
+    specific_log_gamma=None,
 ):
     """Equilibrium of a :class:`~pourbaix.physics.components.MassBalanceSystem` at one point.
 
@@ -452,6 +453,10 @@ def solve_at(
         Ionic strength of a background electrolyte [mol/kg].
     start : EquilibriumResult, optional
         Warm start.
+    specific_log_gamma : array_like, optional
+        A constant added to log10 gamma of each dissolved species (in the
+        system's order), e.g. the SIT medium terms sum_k eps(j, k) m_k of
+        :func:`pourbaix.physics.sit.medium_terms` [-].
 
     Returns
     -------
@@ -481,8 +486,12 @@ def solve_at(
 
         t = system.temperature_c
 
+        extra = 0.0
+        if specific_log_gamma is not None:
+            extra = np.asarray(specific_log_gamma, dtype=float)[system.aqueous]
+
         def lg(z, ionic):
-            return solution.log_gamma(z, ionic, t, model=activity_model)
+            return solution.log_gamma(z, ionic, t, model=activity_model) + extra
 
     try:
         return solve_equilibrium(
