@@ -21,6 +21,7 @@ __all__ = [
     "DomainMap",
     "Conditions",
     "load_species",
+    "sweep",
     "__version__",
 ]
 

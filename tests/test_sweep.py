@@ -272,6 +272,12 @@ def test_command_line_bad_input_exits_2_without_a_file(tmp_path, capsys, args, m
     assert not (tmp_path / "s.nc").exists()
 
 
+def test_the_package_offers_the_sweep():
+    import pourbaix
+
+    assert pourbaix.sweep is sweep
+
+
 def test_parse_values():
     assert parse_values("25:300:12", "t")[-1] == 300.0
     assert parse_values("1e-8:1e-4:5", "a", log=True) == pytest.approx(
