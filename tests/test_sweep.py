@@ -261,6 +261,7 @@ def test_command_line_sweep(tmp_path, capsys):
         (["--activity", "1e-8:1e-4:x"], "activity"),
         (["--out", "x.png"], "cannot write a sweep"),
         (["--ratio", "1:1"], "ratio"),
+        (["--temperature", "25,400"], "pressure"),
     ],
 )
 def test_command_line_bad_input_exits_2_without_a_file(tmp_path, capsys, args, match):

@@ -128,6 +128,15 @@ def register(sub, add_conditions, map_kwargs):
     c.add_argument(
         "--activity-model", default="davies", help="davies, extended-debye-huckel or b-dot"
     )
+    c.add_argument(
+        "--pressure",
+        type=float,
+        metavar="BAR",
+        help="pressure [bar] (default 1, or saturation above 100 °C; needed above 350 °C)",
+    )
+    c.add_argument(
+        "--water-activity", type=float, default=1.0, help="activity of water (below 1 for brines)"
+    )
     c.add_argument("--dataset", default="default", help="data set (see `pourbaix datasets`)")
     c.add_argument("--data", action="append", default=[], metavar="FILE", help="user species table")
     c.add_argument(
@@ -226,6 +235,8 @@ def _sweep(a, sweep, systems, ligands):
         ph_range=tuple(a.ph),
         potential_range_v=tuple(a.potential),
         activity_model=a.activity_model,
+        pressure_bar=a.pressure,
+        water_activity=a.water_activity,
         dataset=a.dataset,
         data_files=tuple(a.data),
         metastable=a.metastable,
