@@ -1881,6 +1881,13 @@ def galvanic_couple(
             f"({mixed.galvanic_current_density_a_m2:.3g} A/m² on its surface). Kinetic "
             "parameters are the user's; the result is as good as they are."
         )
+        if any(kinetics[m].exchange_current_a_m2 is not None for m in metals):
+            statement += (
+                " An electrode given an exchange current rests at its equilibrium potential from "
+                "the map; a real surface in an aerated water rests at a mixed potential set largely "
+                "by oxygen reduction (give icorr with a measured ecorr for that), and no limiting "
+                "(diffusion) current is modelled."
+            )
     return CoupleResult(
         metals=tuple(results),
         ph=ph,

@@ -881,8 +881,9 @@ def register(sub, add_conditions, map_kwargs):
         "galvanic current and the Evans diagram. Without kinetics, thermodynamics gives only the driving force.",
         [
             "pourbaix couple Zn Cu --ph 8 --temperature 15 --out zn-cu.png",
-            "pourbaix couple Zn Cu --ph 8 --kinetics Zn:anodic=0.04,cathodic=0.12,i0=0.1 "
-            "--kinetics Cu:anodic=0.06,cathodic=0.12,i0=0.01 --area-ratio 10 --evans evans.png",
+            "pourbaix couple Zn Cu --ph 8 --kinetics Zn:anodic=0.03,cathodic=0.12,icorr=0.02,ecorr=-0.8 "
+            "--kinetics Cu:anodic=0.06,cathodic=0.3,icorr=0.005,ecorr=-0.05 --area-ratio 10 --evans evans.png",
+            "  (kinetic values above are invented for the example: use values measured on your surfaces)",
         ],
     )
     add_conditions(cp, window=False)
