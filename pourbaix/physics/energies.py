@@ -127,6 +127,11 @@ def _gibbs(sp, temperature_c, pressure_bar=1.0, aqueous_route="hkf"):
     return float(res.dg_kj_mol), res.route, float(res.valid_to_c)
 
 
+# entropy_estimates per table: tables are immutable, and the search over all rows costs
+# ~20 ms for the embedded tables, more than the rest of a map at temperature
+_ESTIMATES: dict[int, tuple[object, dict]] = {}
+
+
 def entropy_estimates(table):
     """S° estimates for the tables' hydroxide complexes that have none.
 
@@ -145,6 +150,17 @@ def entropy_estimates(table):
         solid hydroxides and oxyhydroxides as the sum of a tabulated oxide of
         the same oxidation state and water (:func:`oxide_sum_entropy`).
     """
+    cached = _ESTIMATES.get(id(table))
+    if cached is not None and cached[0] is table:
+        return cached[1]
+    found = _entropy_estimates(table)
+    if len(_ESTIMATES) >= 8:
+        _ESTIMATES.pop(next(iter(_ESTIMATES)))
+    _ESTIMATES[id(table)] = (table, found)
+    return found
+
+
+def _entropy_estimates(table):
     from pourbaix.physics import hkf
 
     cations = {}
@@ -358,7 +374,9 @@ def _context(table, t, props, nernst_v, water_activity, elements):
         water_activity=water_activity,
         element_g_kj=element_g,
         aqueous_route=route,
-        entropy_estimates=entropy_estimates(table) if route == "hkf" else {},
+        entropy_estimates=(
+            entropy_estimates(table) if route == "hkf" and (t, p) != (T_REF_C, 1.0) else {}
+        ),
     )
 
 
