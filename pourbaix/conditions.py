@@ -395,6 +395,32 @@ def _ionic_strength(ionic_strength, background):
     return i
 
 
+# background ions that are ligands of a family: they set the ionic strength only
+_BACKGROUND_LIGANDS = {"Cl^-": ("Cl", "chloride"), "SO4^2-": ("S", "sulfate"),
+                       "HCO3^-": ("C", "carbonate"), "CO3^2-": ("C", "carbonate")}  # fmt: skip
+
+
+def _background_ligand_notes(background, families):
+    """Say that a background electrolyte's complexing anions form no complexes unless given as ligands."""
+    from pourbaix.physics import solution
+
+    salts = (
+        solution.parse_background(background) if isinstance(background, str) else dict(background)
+    )
+    given = set(families or {})  # ligand names given
+    amounts = {}
+    for ion, molality, _charge in solution.background_ions(salts):
+        if ion in _BACKGROUND_LIGANDS and _BACKGROUND_LIGANDS[ion][0] not in given:
+            family, word = _BACKGROUND_LIGANDS[ion]
+            amounts[(family, word)] = amounts.get((family, word), 0.0) + float(molality)
+    return [
+        f"background electrolyte: its {word} ({m:g} mol/kg) sets the ionic strength only and forms "
+        f"no {word} complexes on this map; to include them give {word} as a ligand "
+        f"(--ligand {family}={m:g} on the command line)"
+        for (family, word), m in amounts.items()
+    ]
+
+
 def _reference(reference, temperature_c):
     from pourbaix.physics import electrodes
 
@@ -522,6 +548,8 @@ def make_conditions(
     model_name = str(activity_model)
     solution.model_validity(model_name)  # an unknown model is an error whatever the strength
     ionic = _ionic_strength(ionic_strength, background)
+    if background is not None:
+        notes += _background_ligand_notes(background, families)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
         water = thermo.water_properties(t, pressure_bar)

@@ -202,3 +202,53 @@ def test_default_window_widens_to_show_magnesium_immunity(tmp_path, capsys):
     # iron's immunity is inside the default window: nothing changes
     code, _, err = run(capsys, "map", "Fe", "--out", str(out))
     assert "widened" not in err
+
+
+@pytest.mark.parametrize(
+    "args",
+    [
+        ["probe", "Fe", "--ph", "7", "--potential", "-0.3"],
+        ["lines", "Zn"],
+        ["species", "Cu"],
+    ],
+)
+def test_report_on_probe_lines_and_species(tmp_path, capsys, args):
+    page = tmp_path / "report.html"
+    code, _, err = run(capsys, *args, "--report", str(page))
+    assert code == 0, err
+    text = page.read_text(encoding="utf-8")
+    assert text.startswith("<!DOCTYPE html>") and "<svg" in text
+
+
+def test_species_help_explains_every_argument(capsys):
+    with pytest.raises(SystemExit):
+        main(["species", "--help"])
+    out = capsys.readouterr().out
+    for option in ("--dataset", "--data", "--json", "--report"):
+        line = next(ln for ln in out.splitlines() if ln.strip().startswith(option))
+        rest = line.split(option, 1)[1].split(None, 1)
+        assert len(rest) > 1 or option == "--data", f"{option} has no help"
+    assert "user species table" in out and "print JSON" in out
+
+
+def test_one_name_for_iso_solubility_levels(tmp_path, capsys):
+    fig = tmp_path / "zn.png"
+    code, _, err = run(
+        capsys, "solubility", "Zn", "--potential", "0", "--solubility-lines", "1e-3",
+        "--map-out", str(fig),
+    )  # fmt: skip
+    assert code == 0, err
+    assert fig.is_file()
+    code, _, err = run(capsys, "solubility", "Zn", "--potential", "0", "--levels", "1e-3")
+    assert code == 0, err  # the older name still works
+
+
+def test_background_salt_says_its_chloride_forms_no_complexes(capsys):
+    code, _, err = run(capsys, "probe", "Cu", "--background", "NaCl=0.5", "--ph", "5",
+                       "--potential", "0.3")  # fmt: skip
+    assert code == 0
+    assert "chloride (0.5 mol/kg) sets the ionic strength only" in err
+    assert "--ligand Cl=0.5" in err
+    code, _, err = run(capsys, "probe", "Cu", "--background", "NaCl=0.5", "--ligand", "Cl=0.5",
+                       "--ph", "5", "--potential", "0.3")  # fmt: skip
+    assert code == 0 and "sets the ionic strength only" not in err

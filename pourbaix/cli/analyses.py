@@ -675,12 +675,15 @@ def register(sub, add_conditions, map_kwargs):
         help="the map with iso-solubility lines (.png/.svg/.pdf)",
     )
     p.add_argument(
+        "--solubility-lines",
         "--levels",
+        dest="levels",
         nargs="+",
         type=_positive,
         default=None,
         metavar="MOL_KG",
-        help="levels of the iso-solubility lines (default 1e-2 1e-4 1e-6 1e-8)",
+        help="levels of the iso-solubility lines [mol/kg] (default 1e-2 1e-4 1e-6 1e-8; the same "
+        "option as on `pourbaix map`; --levels is the older name)",
     )
     p.add_argument(
         "--basis",

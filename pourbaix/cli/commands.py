@@ -378,6 +378,15 @@ def _with_potential(a, window):
     return b
 
 
+def _report_of(a, dmap):
+    """Write the --report of a probe, lines or species command (the map's report)."""
+    if getattr(a, "report", None):
+        from pourbaix.report.document import write_report_from_args
+
+        write_report_from_args(a, dmap)
+        print(f"wrote {a.report}", file=sys.stderr)
+
+
 def _slider_maps(a, dmap):
     """The maps an interactive page steps through: one per --slider-temperature or --slider-activity."""
     from pourbaix.maps.domain_map import compute_map
@@ -400,6 +409,7 @@ def cmd_probe(a):
     dmap = _compute(a)
     _print_warnings(dmap)
     r = dmap.probe(a.ph, a.potential)
+    _report_of(a, dmap)
     if a.json:
         row = r.rows()[0]
         row["reference"] = dmap.conditions.reference
@@ -443,6 +453,7 @@ def cmd_lines(a):
     dmap = _compute(a)
     _print_warnings(dmap)
     rows = boundary_equations(dmap)
+    _report_of(a, dmap)
     if a.json:
         print(json.dumps(rows, indent=2, ensure_ascii=False))
         return 0
@@ -480,9 +491,17 @@ def cmd_species(a):
             "species: name an element, e.g. `pourbaix species Fe`; "
             "`pourbaix elements` lists every element with data"
         )
+    if getattr(a, "report", None) and len(a.element) != 1:
+        raise OptionError(
+            "species --report: name one element (the report holds its map, species and sources)"
+        )
     table = load_species(a.dataset, tuple(a.data))
     for msg in table.overrides:
         print(f"pourbaix: note: {msg}", file=sys.stderr)
+    if getattr(a, "report", None):
+        from pourbaix.maps.domain_map import compute_map
+
+        _report_of(a, compute_map(a.element[0], dataset=a.dataset, data_files=tuple(a.data)))
     els = set(a.element)
     from pourbaix.conditions import parse_elements
 
@@ -682,6 +701,7 @@ def build_parser():
     )
     pr.add_argument("--json", action="store_true", help="print JSON")
     _add_uncertainty(pr)
+    add_report_option(pr)
     pr.set_defaults(func=cmd_probe, window=False)
 
     ln = sub.add_parser(
@@ -693,6 +713,7 @@ def build_parser():
     )
     _add_conditions(ln)
     ln.add_argument("--json", action="store_true", help="print JSON")
+    add_report_option(ln)
     ln.set_defaults(func=cmd_lines, window=True)
 
     sp = sub.add_parser(
@@ -702,8 +723,16 @@ def build_parser():
         epilog="example: pourbaix species Fe --json",
     )
     sp.add_argument("element", nargs="*", help="element symbol(s); `pourbaix elements` lists them")
-    sp.add_argument("--dataset", default="default")
-    sp.add_argument("--data", action="append", default=[], metavar="FILE")
+    sp.add_argument(
+        "--dataset", default="default", help="data set to list (see `pourbaix datasets`)"
+    )
+    sp.add_argument(
+        "--data",
+        action="append",
+        default=[],
+        metavar="FILE",
+        help="user species table (same columns) added to the data set; repeatable",
+    )
     sp.add_argument(
         "--temperature",
         type=_float,
@@ -712,7 +741,8 @@ def build_parser():
         help="show the route each species takes to this temperature [°C] (default: to 100 °C)",
     )
     sp.add_argument("--pressure", type=_positive_float, metavar="BAR", help="pressure [bar]")
-    sp.add_argument("--json", action="store_true")
+    sp.add_argument("--json", action="store_true", help="print JSON")
+    add_report_option(sp)
     sp.set_defaults(func=cmd_species)
 
     rf = sub.add_parser(
