@@ -501,7 +501,15 @@ def cmd_species(a):
     if getattr(a, "report", None):
         from pourbaix.maps.domain_map import compute_map
 
-        _report_of(a, compute_map(a.element[0], dataset=a.dataset, data_files=tuple(a.data)))
+        _report_of(
+            a,
+            compute_map(
+                a.element[0],
+                dataset=a.dataset,
+                data_files=tuple(a.data),
+                temperature_c=getattr(a, "temperature", 25.0),
+            ),
+        )
     els = set(a.element)
     from pourbaix.conditions import parse_elements
 
@@ -560,7 +568,15 @@ def cmd_species(a):
     return 0
 
 
-HKF_NAMES = ("a1_cal_mol_bar", "a2_cal_mol", "a3_cal_k_mol_bar", "a4_cal_k_mol", "c1_cal_mol_k", "c2_cal_k_mol", "omega_cal_mol")
+HKF_NAMES = (
+    "a1_cal_mol_bar",
+    "a2_cal_mol",
+    "a3_cal_k_mol_bar",
+    "a4_cal_k_mol",
+    "c1_cal_mol_k",
+    "c2_cal_k_mol",
+    "omega_cal_mol",
+)
 
 
 def _species_routes(table, rows, temperature_c, pressure_bar):
