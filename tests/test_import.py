@@ -244,3 +244,43 @@ def test_every_imported_parameter_equals_its_source(run_import):
             round(float(row["mk_c_jk_mol"])),
         )
         assert got in mk, row
+
+
+def test_hand_rows_said_to_equal_the_crc_table_do(run_import):
+    """Rows whose note says their values equal the CRC table: dG, dH, S against it."""
+    with run_import.crc_solids_file().open(newline="", encoding="utf-8") as handle:
+        solids = {r["CAS"]: r for r in csv.DictReader(handle, delimiter="\t")}
+    with run_import.crc_ions_file().open(newline="", encoding="utf-8") as handle:
+        ions = {r["Formula"]: r for r in csv.DictReader(handle, delimiter="\t")}
+    checked = 0
+    for f in sorted(DATA.glob("*.csv")):
+        if f.name.startswith("sources") or f.name == "datasets.csv":
+            continue
+        with f.open(newline="", encoding="utf-8") as handle:
+            for line, row in enumerate(csv.DictReader(handle), start=2):
+                m = re.search(
+                    r"equal the CRC table (?:of aqueous ions \(([^)]+)\)|\(CAS)", row["note"]
+                )
+                if not m:
+                    continue
+                if m.group(1):
+                    src = ions[m.group(1)]
+                    pairs = (
+                        ("dgf_kj_mol", src["Gf(aq)"], 1000),
+                        ("dhf_kj_mol", src["Hf(aq)"], 1000),
+                    )
+                    pairs += (("s_j_molk", src["S(aq)"], 1),)
+                else:
+                    src, p = solids[row["cas"]], row["phase"]
+                    pairs = (
+                        ("dgf_kj_mol", src["Gf" + p] or "0", 1000),
+                        ("dhf_kj_mol", src["Hf" + p], 1000),
+                        ("s_j_molk", src["S0" + p], 1),
+                    )
+                for column, printed, scale in pairs:
+                    if row[column]:
+                        assert float(row[column]) == pytest.approx(
+                            float(printed) / scale, abs=0.051
+                        ), f"{f.name}:{line} {column}"
+                checked += 1
+    assert checked > 80

@@ -42,6 +42,7 @@ from __future__ import annotations
 
 import argparse
 import csv
+import functools
 import io
 import math
 import re
@@ -933,6 +934,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
         # hand-typed tables: only the empty parameter columns are filled, the rest is kept
         with f.open(newline="", encoding="utf-8") as handle:
             header, *rows = list(csv.reader(handle))
+        rows = [_verified_by_crc(header, row, crc) for row in rows]
         cols, rows = _with_parameters(header, rows, index, transitions)
         out[f.name] = _csv_text(cols, rows)
     for stem, rows in sorted(tables.items()):
@@ -1002,6 +1004,77 @@ def supcrt_citations(refs: dict[str, str]) -> dict[str, str]:
         if m and m.group(1) in out and not re.search(r"(19|20)\d\d", text):
             out[code] = f"{out[m.group(1)]} [{text.strip()}]"
     return out
+
+
+@functools.cache
+def _crc_ion_rows() -> dict:
+    """Rows of the CRC aqueous-ion table by (composition, charge)."""
+    out = {}
+    with crc_ions_file().open(newline="", encoding="utf-8") as handle:
+        for row in csv.DictReader(handle, delimiter="\t"):
+            m = re.match(r"^(.*?)([+-])(\d*)$", row["Formula"])
+            try:
+                f = parse_formula(f"{m.group(1)}^{m.group(3)}{m.group(2)}") if m else None
+            except FormulaError:
+                continue
+            if f is not None:
+                out[(frozenset(f.composition.items()), f.charge)] = row
+    return out
+
+
+def _close(ours: str, printed: str, scale: float) -> bool:
+    """Our value equals the CRC's to its last printed digit (0.1 kJ/mol or J/(mol K))."""
+    return not ours or (printed != "" and abs(float(ours) - float(printed) / scale) <= 0.051)
+
+
+def _verified_by_crc(header, row, crc) -> list[str]:
+    """A hand row typed from memory whose values all equal the CRC table's: say so instead.
+
+    Applies to NBS82 and CODATA89 rows only (the CRC table reprints those
+    compilations); every value the row gives (dG, and dH and S when given) must
+    equal the CRC value to the CRC's 0.1 kJ/mol and 0.1 J/(mol K).
+    """
+    values = dict(zip(header, row, strict=True))
+    note = values.get("note", "")
+    if "from memory" not in note or values.get("source") not in ("NBS82", "CODATA89"):
+        return row
+    try:
+        f = parse_formula(values["formula"])
+    except FormulaError:
+        return row
+    phase = values["phase"]
+    if phase == "aq" and f.charge != 0:
+        hit = _crc_ion_rows().get((frozenset(f.composition.items()), f.charge))
+        if hit is None:
+            return row
+        checks = (
+            ("dgf_kj_mol", "Gf(aq)", 1000),
+            ("dhf_kj_mol", "Hf(aq)", 1000),
+            ("s_j_molk", "S(aq)", 1),
+        )
+        where = f"the CRC table of aqueous ions ({hit['Formula']})"
+    elif phase in ("s", "l", "g") and values.get("cas") in crc:
+        hit = crc[values["cas"]]
+        if hit["Hf" + phase] == "":
+            return row
+        if hit["Gf" + phase] == "":  # elements: Gf left blank, zero by definition
+            hit = dict(hit, **{"Gf" + phase: "0"})
+        checks = (
+            ("dgf_kj_mol", "Gf" + phase, 1000),
+            ("dhf_kj_mol", "Hf" + phase, 1000),
+            ("s_j_molk", "S0" + phase, 1),
+        )
+        where = f"the CRC table (CAS {values['cas']}: {hit['Chemical']})"
+    else:
+        return row
+    if not all(_close(values.get(col, ""), hit[key], scale) for col, key, scale in checks):
+        return row
+    values["note"] = note.replace(
+        "from memory",
+        f"typed by hand; its dG, dH and S (those given) equal {where}, which reprints this compilation",
+        1,
+    )
+    return [values[c] for c in header]
 
 
 def _csv_text(header, rows) -> str:
