@@ -108,4 +108,5 @@ def test_every_element_map_agrees_with_a_dense_grid_argmin(element):
     species = np.asarray(r.species, dtype=object)
     assert (owner != "").mean() > 0.95  # the polygons cover the grid
     bad = (~near) & (owner != species)
-    assert not bad.any(), list(zip(x[bad][:3], y[bad][:3], owner[bad][:3], species[bad][:3]))
+    examples = list(zip(x[bad], y[bad], owner[bad], species[bad], strict=True))[:3]
+    assert not bad.any(), examples
