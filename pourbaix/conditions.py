@@ -342,10 +342,10 @@ def _parse_ligands(ligands, notes):
 def _parse_ratio(elements, ratio):
     if ratio is None:
         if len(elements) > 1:
-            ones = ", ".join("1" for _ in elements)
+            ones = ":".join("1" for _ in elements)
             raise OptionError(
                 f"several metals ({' '.join(elements)}) need a ratio of their amounts, "
-                f"e.g. ratio=({ones}) or --ratio {':'.join('1' for _ in elements)}"
+                f"e.g. {ones} (--ratio {ones})"
             )
         return None
     if isinstance(ratio, str):

@@ -252,3 +252,22 @@ def test_background_salt_says_its_chloride_forms_no_complexes(capsys):
     code, _, err = run(capsys, "probe", "Cu", "--background", "NaCl=0.5", "--ligand", "Cl=0.5",
                        "--ph", "5", "--potential", "0.3")  # fmt: skip
     assert code == 0 and "sets the ionic strength only" not in err
+
+
+def test_point_and_range_options_read_alike_and_errors_show_no_python(tmp_path, capsys):
+    # ranges: --ph-range LO HI and --potential-range LO HI (the older --ph LO HI still works);
+    # points: --ph X and --potential E
+    out = tmp_path / "cu.json"
+    code, _, err = run(capsys, "map", "Cu", "--ph-range", "0", "14", "--potential-range", "-1",
+                       "1.5", "--out", str(out))  # fmt: skip
+    assert code == 0, err
+    window = json.loads(out.read_text(encoding="utf-8"))
+    text = json.dumps(window)
+    assert "14" in text and "1.5" in text
+    code, _, err = run(capsys, "map", "Cu", "--ph", "0", "14", "--out", str(out))
+    assert code == 0, err
+    code, _, err = run(capsys, "solubility", "Zn", "--potential", "0", "--ph-range", "6", "10")
+    assert code == 0, err
+    code, _, err = run(capsys, "map", "Fe", "Cr", "--out", str(tmp_path / "x.png"))
+    assert code == 2
+    assert "--ratio 1:1" in err and "ratio=(" not in err

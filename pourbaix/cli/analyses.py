@@ -646,12 +646,14 @@ def register(sub, add_conditions, map_kwargs):
         help="follow the O2/H2O or H2O/H2 line (1 bar) instead",
     )
     p.add_argument(
+        "--ph-range",
         "--ph",
+        dest="ph",
         nargs=2,
         type=_number,
         metavar=("LO", "HI"),
         default=(0.0, 14.0),
-        help="pH range of the table (default 0 14)",
+        help="pH range of the table (default 0 14); --ph LO HI is the older spelling",
     )
     p.add_argument(
         "--step",

@@ -96,21 +96,28 @@ def _add_conditions(p, window=True):
         help="molality of dissolved species [mol/kg] (instead of --activity; accepted 1e-20 to 20)",
     )
     if window:
+        # ranges are --ph-range/--potential-range; --ph X and --potential E name a point
+        # (probe, reading); the range commands still take the older --ph LO HI / --potential LO HI
         g.add_argument(
+            "--ph-range",
             "--ph",
+            dest="ph",
             nargs=2,
             type=_float,
             metavar=("LO", "HI"),
             default=(-2.0, 16.0),
-            help="pH window (default -2 16; within -4 to 18)",
+            help="pH window (default -2 16; within -4 to 18); --ph LO HI is the older spelling",
         )
         g.add_argument(
+            "--potential-range",
             "--potential",
+            dest="potential",
             nargs=2,
             type=_float,
             metavar=("LO", "HI"),
             default=(-2.0, 2.0),
-            help="potential window [V vs --reference] (default -2 2; within -5 to 5)",
+            help="potential window [V vs --reference] (default -2 2; within -5 to 5); "
+            "--potential LO HI is the older spelling",
         )
     g.add_argument(
         "--reference",
