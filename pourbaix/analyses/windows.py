@@ -620,10 +620,12 @@ def draw_window(window, ax=None, *, lines=True):
         ]
         names = ["window", f"most room: pH {bx:.2f}, {by:+.3f} V", *names]
     else:
+        from pourbaix.plot.style import typeset_formulas
+
         ax.text(
             0.5,
             0.5,
-            "no window:\n" + "\n".join(window.reasons),
+            "no window:\n" + "\n".join(typeset_formulas(r) for r in window.reasons),
             transform=ax.transAxes,
             ha="center",
             va="center",
