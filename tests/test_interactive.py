@@ -307,3 +307,19 @@ def test_page_in_headless_chromium(tmp_path, browser):
         maps[1].domains
     )
     assert "150 °C" in _text(browser, "title")
+
+
+def test_field_readings_page_steps_through_their_temperatures(tmp_path, capsys):
+    from pathlib import Path
+
+    data = Path(__file__).parent / "data" / "field" / "two_sites.csv"
+    out = tmp_path / "readings.html"
+    code = main(["field", "Pb", "--readings", str(data), "--out", str(out)])
+    assert code == 0, capsys.readouterr().err
+    page = out.read_text(encoding="utf-8")
+    doc = json.loads(re.search(r'<script id="map-data"[^>]*>(.*?)</script>', page, re.S).group(1))
+    assert [f["label"] for f in doc["frames"]] == ["12 °C", "15 °C", "18 °C"]
+    assert len(doc["readings"]) == 6
+    first = doc["readings"][0]
+    assert first["details"]["site"] == "north reservoir outlet"
+    assert "the map at 12 °C" in first["details"]["classified on"]
