@@ -39,13 +39,39 @@ class DataFileError(DataError):
         so a user sees all of them at once.
     """
 
+    #: Rows listed in the message; the rest are counted (all stay in ``problems``).
+    MAX_ROWS_SHOWN = 20
+    #: Longest message text per problem before it is shortened [characters].
+    MAX_MESSAGE = 300
+
     def __init__(self, problems):
         self.problems = list(problems)
-        lines = [
-            f"{p}:{ln}:{col}: {msg}" if col else f"{p}:{ln}: {msg}"
-            for p, ln, col, msg in self.problems
-        ]
+        rows_shown = []
+        lines = []
+        hidden = 0
+        for p, ln, col, msg in self.problems:
+            row = (p, ln)
+            if row not in rows_shown:
+                if len(rows_shown) >= self.MAX_ROWS_SHOWN:
+                    hidden += 1
+                    continue
+                rows_shown.append(row)
+            msg = _shorten(str(msg), self.MAX_MESSAGE)
+            lines.append(f"{p}:{ln}:{col}: {msg}" if col else f"{p}:{ln}: {msg}")
+        if hidden:
+            rows_hidden = len({(p, ln) for p, ln, _, _ in self.problems}) - len(rows_shown)
+            lines.append(
+                f"... and {hidden} more problem(s) on {rows_hidden} more line(s) not listed; "
+                "fix the ones above and run again"
+            )
         super().__init__("\n".join(lines))
+
+
+def _shorten(text, limit):
+    """``text`` cut to about ``limit`` characters, saying how long it was."""
+    if len(text) <= limit:
+        return text
+    return f"{text[: limit - 40]}... ({len(text)} characters in all)"
 
 
 class UnknownSpeciesError(DataError, KeyError):

@@ -343,6 +343,18 @@ def read_field_csv(path):
         found = []
         ph = _number(fields[idx["ph"]], "ph", n, found, limits=PH_LIMITS)
         e = _number(fields[idx["potential_v"]], "potential_v", n, found, unit="V")
+        unit_col = next((c for c in ("unit", "units") if c in cols), None)
+        if unit_col is not None and cols.index(unit_col) < len(fields):
+            unit = fields[cols.index(unit_col)].strip()
+            if unit.lower() not in ("", "v", "volt", "volts"):
+                found.append(
+                    FieldProblem(
+                        n,
+                        unit_col,
+                        f"unit {unit[:20]!r}: potential_v is read in volts; convert the value "
+                        "to V (e.g. -650 mV -> -0.65) and write V here",
+                    )
+                )
         if e is not None and abs(e) > 5.0:
             found.append(
                 FieldProblem(

@@ -23,6 +23,10 @@ _SAFETY = (
 )
 
 
+# Most rows a solubility table may have (a finer step is a typing slip, not a table).
+_MAX_TABLE_ROWS = 10_000
+
+
 # ------------------------------------------------------------------ argument types
 def _number(text):
     try:
@@ -185,6 +189,11 @@ def _cmd_solubility(a, map_kwargs):
     if not (0 < a.step <= hi - lo):
         raise OptionError(
             f"--step must be above 0 and at most the pH span ({hi - lo:g}), got {a.step:g}"
+        )
+    if (hi - lo) / a.step > _MAX_TABLE_ROWS:
+        raise OptionError(
+            f"--step {a.step:g} would make {(hi - lo) / a.step:.3g} rows; give a step of at least "
+            f"{(hi - lo) / _MAX_TABLE_ROWS:g} (at most {_MAX_TABLE_ROWS} rows)"
         )
     outs = _outputs(a.out, (*_FIGURES, ".csv", ".json"))
     map_outs = _outputs(a.map_out, _FIGURES, "--map-out")
@@ -660,7 +669,7 @@ def register(sub, add_conditions, map_kwargs):
         type=_positive,
         default=0.5,
         metavar="DPH",
-        help="pH step of the table (default 0.5)",
+        help=f"pH step of the table (default 0.5; at most {_MAX_TABLE_ROWS} rows)",
     )
     p.add_argument(
         "--out",

@@ -863,6 +863,7 @@ def output_paths(a):
     if isinstance(outs, str | Path):
         outs = [outs]
     paths = [("--out", Path(o)) for o in outs]
+    paths += [("--map-out", Path(o)) for o in getattr(a, "map_out", None) or []]
     report = getattr(a, "report", None)
     if report:
         p = Path(report)

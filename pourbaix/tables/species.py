@@ -82,6 +82,25 @@ _NUMERIC = (
     "v_cm3_mol",
     *HKF_COLUMNS,
 )
+#: Largest |charge| of a species (the most highly charged polyoxometalates carry about -10).
+MAX_CHARGE = 12
+#: Most atoms of one element in a formula unit (large polyoxometalates hold about 100).
+MAX_ATOMS = 500
+#: Largest plausible |value| per numeric column, in the column's unit: ΔfG° and ΔfH° of the
+#: largest tabulated minerals are a few 10^4 kJ/mol; third-law entropies and heat capacities
+#: of formula units stay below 10^4 J/(mol K) (Robie & Hemingway 1995 tables, by inspection).
+MAGNITUDE = {
+    "dgf_kj_mol": 1e5,
+    "dhf_kj_mol": 1e5,
+    "s_j_molk": 1e4,
+    "cp_j_molk": 1e4,
+    "mk_a_j_molk": 1e4,
+    "mk_b_j_molk2": 10.0,
+    "mk_c_jk_mol": 1e9,
+    "mk_tmax_k": 5000.0,
+    "v_cm3_mol": 1e4,
+}
+
 # quantity stems people write for the numeric columns, mapped to our column
 _STEMS = {
     "dgf": "dgf_kj_mol",
@@ -108,7 +127,9 @@ _STEMS = {
     "volume": "v_cm3_mol",
 }
 _SOURCE_COLUMNS = ("key", "citation", "note")
-_NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?")
+# one way to split the digits (no nested repetition: linear time on any input)
+_NUMBER = re.compile(r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?")
+_NUMBER_MAX_LENGTH = 64  # longer text is no number anyone typed
 _FORM = re.compile(r"[A-Za-z0-9][A-Za-z0-9_.\- ]*")
 _CAS = re.compile(r"(\d{2,7})-(\d{2})-(\d)")
 
@@ -530,6 +551,8 @@ def _header_problems(header: list[str], display: str, line: int, allowed: dict) 
 def _number(text: str) -> float | None:
     """Parse a decimal number; a unicode minus is accepted. None when not a number."""
     t = text.replace("\u2212", "-")
+    if len(t) > _NUMBER_MAX_LENGTH:
+        return None
     if t.lower().lstrip("+-") in ("nan", "inf", "infinity"):
         return math.nan
     if not _NUMBER.fullmatch(t):
@@ -759,6 +782,19 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems) ->
     if form is not None and not _FORM.fullmatch(form):
         add("form", f"form {form!r}: use letters, digits, '-', '_', '.' or spaces (no ':' or ',')")
 
+    if formula is not None:
+        if abs(formula.charge) > MAX_CHARGE:
+            add(
+                "formula",
+                f"charge {formula.charge:+d} of {cell('formula')[:40]!r} is not a real ionic charge (at most ±{MAX_CHARGE})",
+            )
+        big = [el for el, n in formula.composition.items() if n > MAX_ATOMS]
+        if big:
+            add(
+                "formula",
+                f"{cell('formula')[:40]!r}: more than {MAX_ATOMS} atoms of {', '.join(big)} in one formula unit",
+            )
+
     values: dict[str, float | None] = {}
     for name in _NUMERIC:
         text = cell(name)
@@ -770,6 +806,12 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems) ->
             add(name, f"{name}: {text!r} is not a number (unit {COLUMNS[name][0]})")
         elif not math.isfinite(x):
             add(name, f"{name}: {text!r} is not a finite number")
+        elif name in MAGNITUDE and abs(x) > MAGNITUDE[name]:
+            add(
+                name,
+                f"{name}: {text[:40]!r} is implausible (|value| above {MAGNITUDE[name]:g} "
+                f"{COLUMNS[name][0]}); check the unit and the exponent",
+            )
         else:
             values[name] = x
     if phase in ("s", "l", "g"):
