@@ -5,6 +5,8 @@ argmin (DESIGN §2.2: the grid is only ever a reference) and the O(N^2)
 clipping construction, checked against each other and against Qhull.
 """
 
+import os
+
 import numpy as np
 import pytest
 from hypothesis import given, settings
@@ -13,6 +15,9 @@ from shapely.geometry import Polygon
 
 from pourbaix.errors import ConditionsError
 from pourbaix.solve.envelope import clip_domains, lower_envelope
+
+# examples per property test multiply by this (a larger run: see DEVELOPERS.md)
+PROPERTY_SCALE = int(os.environ.get("POURBAIX_PROPERTY_SCALE", "1"))
 
 WINDOW = (-2.0, 16.0, -2.0, 2.0)
 WINDOW_AREA = 18.0 * 4.0
@@ -49,7 +54,7 @@ def _area(poly):
     return Polygon(poly).area
 
 
-@settings(max_examples=150, deadline=None)
+@settings(max_examples=150 * PROPERTY_SCALE, deadline=None)
 @given(plane_sets())
 def test_domains_tile_the_window(planes):
     env = lower_envelope(planes, WINDOW)
@@ -62,7 +67,7 @@ def test_domains_tile_the_window(planes):
             assert polys[a].intersection(polys[b]).area <= 1e-9
 
 
-@settings(max_examples=150, deadline=None)
+@settings(max_examples=150 * PROPERTY_SCALE, deadline=None)
 @given(plane_sets(), st.integers(0, 2**31 - 1))
 def test_domain_holding_a_point_is_the_argmin(planes, seed):
     env = lower_envelope(planes, WINDOW)
@@ -84,7 +89,7 @@ def test_domain_holding_a_point_is_the_argmin(planes, seed):
         assert min(row[i] for i in owners) == pytest.approx(b, abs=1e-7)
 
 
-@settings(max_examples=150, deadline=None)
+@settings(max_examples=150 * PROPERTY_SCALE, deadline=None)
 @given(plane_sets())
 def test_boundary_end_points_lie_on_their_pair_line(planes):
     env = lower_envelope(planes, WINDOW)
@@ -100,7 +105,7 @@ def test_boundary_end_points_lie_on_their_pair_line(planes):
                 assert x == pytest.approx(e.ph_at_vertical, abs=1e-7)
 
 
-@settings(max_examples=100, deadline=None)
+@settings(max_examples=100 * PROPERTY_SCALE, deadline=None)
 @given(plane_sets(max_n=12))
 def test_qhull_route_equals_clipping_route(planes):
     env = lower_envelope(planes, WINDOW)
@@ -222,7 +227,7 @@ def test_non_finite_plane_is_refused():
         lower_envelope([[0, 0, 0], [np.nan, 0, 0]], WINDOW)
 
 
-@settings(max_examples=100, deadline=None)
+@settings(max_examples=100 * PROPERTY_SCALE, deadline=None)
 @given(plane_sets(max_n=20))
 def test_enumeration_and_qhull_vertex_routes_agree(planes):
     """The small-N route (candidate enumeration) and the large-N route (Qhull) give one answer."""

@@ -10,10 +10,11 @@ predominant-ligand assemblage at a point, and scipy's linear-programming solver
 import itertools
 import json
 import math
+import os
 
 import numpy as np
 import pytest
-from hypothesis import given, settings
+from hypothesis import example, given, settings
 from hypothesis import strategies as st
 from scipy.optimize import linprog
 from shapely.geometry import Point
@@ -27,6 +28,9 @@ from pourbaix.maps.systems import (
     resolve_ligand,
 )
 from pourbaix.tables.species import load_species
+
+# examples per property test multiply by this (a larger run: see DEVELOPERS.md)
+PROPERTY_SCALE = int(os.environ.get("POURBAIX_PROPERTY_SCALE", "1"))
 
 # CODATA 2018 constants
 R_KJ = 8.314462618e-3  # kJ/(mol K)
@@ -397,7 +401,15 @@ def test_boundaries_lie_where_both_assemblages_cost_the_same():
         assert vals[0] == pytest.approx(vals[1], abs=1e-6), b.between
 
 
-@settings(max_examples=6, deadline=None)
+@settings(max_examples=6 * PROPERTY_SCALE, deadline=None)
+# a window where snapping each overlay piece to a grid left a sliver (relative gap 1.6e-9)
+@example(
+    activity=0.0004935211802989533,
+    ph_lo=4.621620750563534,
+    width=6.682792227322452,
+    e_lo=-0.6756094684904108,
+    height=0.5413386698646026,
+)
 @given(
     activity=st.floats(1e-5, 1e-1),
     ph_lo=st.floats(-2.0, 6.0),

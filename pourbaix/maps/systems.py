@@ -1170,24 +1170,31 @@ def _overlay_map(
         bx0, by0 = rpoly.min(axis=0)
         bx1, by1 = rpoly.max(axis=0)
         if bx1 - bx0 <= _GRID or by1 - by0 <= _GRID:
-            continue
-        # Qhull finds the units that win somewhere in the region's bounding box ...
-        env = solve.lower_envelope(eff, (bx0, bx1, by0, by1))
-        cand = env.stable
-        # ... and each one's piece is the region clipped by its half planes against the others
+            # a thin region: no envelope solve on a degenerate box; every unit is clipped
+            cand = range(len(eff))
+        else:
+            # Qhull finds the units that win somewhere in the region's bounding box ...
+            cand = solve.lower_envelope(eff, (bx0, bx1, by0, by1)).stable
+        # ... and each one's piece is the region clipped by its half planes against the
+        # others. The pieces are kept exactly as clipped (no snapping to a grid): pieces
+        # of one region and the regions themselves come from the same half planes, so
+        # they tile the window to rounding error; snapping each piece on its own moved
+        # shared vertices apart and left slivers of about grid x edge length.
         for i in cand:
             cell = _cell(rpoly, eff, i, cand)
             if cell is None or abs(_ring_area(cell)) <= area_tol:
                 continue
-            geom = shapely.set_precision(Polygon(cell), _GRID)
-            for part in _polygons(geom):
+            piece = Polygon(cell)
+            if not piece.is_valid:
+                piece = shapely.make_valid(piece)
+            for part in _polygons(piece):
                 if part.area > area_tol:
                     pieces.setdefault((i, key), []).append((part, tuple(float(v) for v in eff[i])))
 
     entries, domains, dkeys = [], [], []
     for i, key in sorted(pieces):
         parts = [p for p, _ in pieces[(i, key)]]
-        merged = shapely.union_all(parts, grid_size=_GRID) if len(parts) > 1 else parts[0]
+        merged = shapely.union_all(parts) if len(parts) > 1 else parts[0]
         u = units[i]
         names = tuple(u.names) + tuple(ligand_names[f][k] for f, k in enumerate(key))
         labels = [u.label] + [_ligand_label(ligand_maps, f, k) for f, k in enumerate(key)]
@@ -1216,12 +1223,15 @@ def _overlay_map(
     # boundaries: shared edges of the final domains, each on its own line
     boundaries = []
     min_len = 1e3 * _GRID
+    # shared edges are found on copies snapped to the grid (the domains themselves stay
+    # exact): neighbours' vertices computed in different regions then coincide
+    snapped = [shapely.set_precision(d.polygon, _GRID) for d in domains]
     for a in range(len(domains)):
         for b in range(a + 1, len(domains)):
             A, B = domains[a], domains[b]
-            if not A.polygon.intersects(B.polygon):
+            if not snapped[a].intersects(snapped[b]):
                 continue
-            shared = shapely.intersection(A.polygon.boundary, B.polygon.boundary, grid_size=_GRID)
+            shared = shapely.intersection(snapped[a].boundary, snapped[b].boundary, grid_size=_GRID)
             segs = _straight_segments(shared, min_len)
             if not segs:
                 continue
