@@ -66,3 +66,15 @@ def test_the_import_graph_has_no_cycle():
     for node in sorted(graph):
         if node not in state:
             visit(node)
+def test_no_module_imports_another_modules_private_names():
+    offenders = []
+    for path in PACKAGE.rglob("*.py"):
+        for target, names in _imports(path):
+            if target == _module_name(path):
+                continue
+            offenders += [
+                f"{path.relative_to(PACKAGE.parent)} imports {target}.{n}"
+                for n in names
+                if n.startswith("_") and not n.startswith("__")
+            ]
+    assert not offenders, "\n".join(offenders)

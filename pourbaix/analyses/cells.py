@@ -667,9 +667,9 @@ def _to_hydroxide_form(half: HalfReaction, table: SpeciesTable) -> HalfReaction:
     else:
         right.append((water, -mm))
         left.append((oh, -mm))
-    from pourbaix.physics.halfreactions import _net
+    from pourbaix.physics.halfreactions import net_reaction
 
-    ox, red = _net(left, right)
+    ox, red = net_reaction(left, right)
     return HalfReaction(
         tuple((sp, float(c)) for sp, c in ox),
         tuple((sp, float(c)) for sp, c in red),

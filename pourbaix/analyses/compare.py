@@ -7,7 +7,13 @@ from dataclasses import dataclass, field
 
 from pourbaix.errors import OptionError
 
-__all__ = ["BoundaryShift", "MapComparison", "compare_maps", "draw_comparison"]
+__all__ = [
+    "BoundaryShift",
+    "MapComparison",
+    "compare_maps",
+    "draw_comparison",
+    "comparison_table_lines",
+]
 
 
 @dataclass(frozen=True)
@@ -279,7 +285,7 @@ def draw_comparison(comparison, ax=None):
     )
 
 
-def _table_lines(cmp):
+def comparison_table_lines(cmp):
     """Plain-text table (used by the command line)."""
     out = [
         f"Boundaries of {'-'.join(cmp.map_a.conditions.elements)}: A = {cmp.label_a}, B = {cmp.label_b}; potentials vs {cmp.reference}"
@@ -306,3 +312,7 @@ def _table_lines(cmp):
         out.append(f"  {' | '.join(pair):<{w}}  only in B ({cmp.label_b})")
     out += [f"  note: {n}" for n in cmp.notes]
     return out
+
+
+# old private names, kept one release for code not yet moved to the public ones
+_table_lines = comparison_table_lines

@@ -23,6 +23,7 @@ __all__ = [
     "draw_field_groups",
     "series_of",
     "GROUPINGS",
+    "field_table_lines",
 ]
 
 REQUIRED_COLUMNS = ("ph", "potential_v", "reference")
@@ -714,11 +715,11 @@ def draw_field_groups(groups, *, labels=True, reading=False):
         The Axes for one map, else the figure with one panel per map.
     """
     from pourbaix.plot import draw
-    from pourbaix.plot.style import FIGURE_SIZE_IN, _pyplot
+    from pourbaix.plot.style import FIGURE_SIZE_IN, load_pyplot
 
     if len(groups) == 1:
         return draw_field(*groups[0], labels=labels, reading=reading)
-    plt = _pyplot()
+    plt = load_pyplot()
     ncol = 2
     nrow = math.ceil(len(groups) / ncol)
     w, h = FIGURE_SIZE_IN
@@ -765,7 +766,7 @@ def _fmt(v, unit):
     return f"{v * 1000:.0f}" if unit == "mV" else f"{v:.2f}"
 
 
-def _table_lines(data, groups=None):
+def field_table_lines(data, groups=None):
     """Plain-text table of placed readings (used by the command line).
 
     Names are shown in full (the column is as wide as the longest); the
@@ -809,3 +810,7 @@ def _table_lines(data, groups=None):
         for note in r.notes:
             out.append(f"{'':>6}note: {note}")
     return out
+
+
+# old private names, kept one release for code not yet moved to the public ones
+_table_lines = field_table_lines

@@ -2,7 +2,7 @@
 
 The total dissolved amount of an element M in equilibrium with its
 least-soluble solid follows from the same transformed-energy planes as the
-map (DESIGN §2.1). Each plane psi_i holds ``(k_T / x_i) log10 a_set`` for a
+map (Pourbaix 1974, ch. II). Each plane psi_i holds ``(k_T / x_i) log10 a_set`` for a
 dissolved species i with x_i atoms of M set at the map's activity a_set, so at
 another activity a
 
@@ -30,7 +30,7 @@ import numpy as np
 
 from pourbaix.errors import ConditionsError, OptionError
 from pourbaix.solve.envelope import clip_halfplane
-from pourbaix.tables.formula import _TO_SUPER
+from pourbaix.tables.formula import TO_SUPERSCRIPT
 
 __all__ = [
     "DEFAULT_LEVELS",
@@ -44,8 +44,7 @@ __all__ = [
     "solubility_region",
     "solubility_lines",
     "add_solubility_lines",
-    "draw_solubility_curve",
-]
+    "draw_solubility_curve", "polygon_parts", "check_basis", "check_level",]
 
 #: Iso-solubility levels drawn by default [mol/kg].
 DEFAULT_LEVELS = (1e-2, 1e-4, 1e-6, 1e-8)
@@ -188,7 +187,7 @@ def _ligand_keys(model, x, y):
 
 
 def _effective(model, keys):
-    """Planes (M, N, 3) after the ligand term of the predominant ligand species (DESIGN §2.4)."""
+    """Planes (M, N, 3) after the ligand term of the predominant ligand species (predominant-ligand method; Pourbaix 1974, ch. II)."""
     eff = np.broadcast_to(model.base, (len(keys), *model.base.shape)).copy()
     for f, L in enumerate(model.ligand_planes):
         eff -= model.nu[None, :, f, None] * L[keys[:, f]][:, None, :]
@@ -705,14 +704,15 @@ class _Piece:
     solid: int  # index into the model's species
 
 
-def _polygon_parts(geom):
+def polygon_parts(geom):
+    """The polygon parts of a shapely geometry (empty list for None or empty)."""
     if geom is None or geom.is_empty:
         return []
     if geom.geom_type == "Polygon":
         return [geom]
     out = []
     for g in getattr(geom, "geoms", ()):
-        out += _polygon_parts(g)
+        out += polygon_parts(g)
     return out
 
 
@@ -740,7 +740,7 @@ def _pieces(model):
             for d in lm.domains:
                 if not geom.intersects(d.polygon):
                     continue
-                for part in _polygon_parts(shapely.intersection(geom, d.polygon)):
+                for part in polygon_parts(shapely.intersection(geom, d.polygon)):
                     if part.area > area_tol:
                         new.append(((*key, d.entry), part))
         regions = new
@@ -758,7 +758,7 @@ def _pieces(model):
             parts = (
                 [Polygon(poly)]
                 if not key
-                else _polygon_parts(shapely.intersection(Polygon(poly), geom))
+                else polygon_parts(shapely.intersection(Polygon(poly), geom))
             )
             for part in parts:
                 if part.area > area_tol:
@@ -962,14 +962,16 @@ def _outer(inner, A, L, P, scale):
     return poly
 
 
-def _check_basis(basis):
+def check_basis(basis):
+    """Return ``basis`` if it is a known solubility basis; raise OptionError listing the valid ones."""
     if basis not in _BASES:
         raise OptionError(
             f"basis {basis!r} is not known; use 'total' (sum over dissolved species) or 'species' (each species on its own)"
         )
 
 
-def _check_level(level, what="level"):
+def check_level(level, what="level"):
+    """Return a solubility level as a positive finite float [mol/kg]; raise ConditionsError otherwise."""
     try:
         v = float(level)
     except (TypeError, ValueError):
@@ -1065,8 +1067,8 @@ def solubility_region(dmap, level, *, side="above", basis="total", tolerance=DEF
 
     if side not in ("above", "below"):
         raise OptionError(f"side {side!r} is not known; use 'above' or 'below'")
-    _check_basis(basis)
-    level = _check_level(level)
+    check_basis(basis)
+    level = check_level(level)
     model = _model(dmap)
     parts = []
     for P, inner, outer, _ in _cells(model, level, basis, float(tolerance)):
@@ -1118,13 +1120,13 @@ def solubility_lines(dmap, levels=DEFAULT_LEVELS, *, basis="total", tolerance=DE
     import shapely
     from shapely.geometry import LineString, Polygon
 
-    _check_basis(basis)
+    check_basis(basis)
     model = _model(dmap)
     x0, x1, y0, y1 = model.window
     scale = np.array([x1 - x0, y1 - y0])
     out = {}
     for level in levels:
-        lv = _check_level(level)
+        lv = check_level(level)
         segs = []
         for P, inner, _outer, _A in _cells(model, lv, basis, float(tolerance)):
             if inner is None:
@@ -1152,7 +1154,7 @@ def solubility_lines(dmap, levels=DEFAULT_LEVELS, *, basis="total", tolerance=DE
 def _level_text(v):
     e = math.log10(v)
     if abs(e - round(e)) < 1e-9:
-        return "10" + str(int(round(e))).translate(_TO_SUPER)
+        return "10" + str(int(round(e))).translate(TO_SUPERSCRIPT)
     return f"{v:.2g}"
 
 
@@ -1309,3 +1311,9 @@ def draw_solubility_curve(result, ax=None, *, label=None, title=None):
         ax.set_title(title, loc="left", fontsize=11)
     ax.legend(loc="upper right", fontsize=8, frameon=False)
     return ax
+
+
+# old private names, kept one release for code not yet moved to the public ones
+_polygon_parts = polygon_parts
+_check_basis = check_basis
+_check_level = check_level

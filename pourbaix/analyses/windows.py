@@ -10,14 +10,19 @@ import numpy as np
 from pourbaix.analyses.limits import REAL_SOLUTION_PH_MAX, amount_text
 from pourbaix.analyses.solubility import (
     DEFAULT_TOLERANCE,
-    _check_basis,
-    _check_level,
+    check_basis,
+    check_level,
     solubility,
     solubility_region,
 )
 from pourbaix.errors import ConditionsError, OptionError
 
-__all__ = ["LeachWindow", "leach_window", "draw_window"]
+__all__ = [
+    "LeachWindow",
+    "leach_window",
+    "draw_window",
+    "describe_window",
+]
 
 
 @dataclass
@@ -97,9 +102,9 @@ class LeachWindow:
         list of dict
             ``area`` [pH V], ``ph_bounds`` and ``potential_bounds_v`` [V] of each part.
         """
-        from pourbaix.analyses.solubility import _polygon_parts
+        from pourbaix.analyses.solubility import polygon_parts
 
-        parts = sorted(_polygon_parts(self.region), key=lambda g: -g.area)
+        parts = sorted(polygon_parts(self.region), key=lambda g: -g.area)
         return [
             {
                 "area": float(g.area),
@@ -139,10 +144,10 @@ class LeachWindow:
         -------
         dict
         """
-        from pourbaix.analyses.solubility import _polygon_parts
+        from pourbaix.analyses.solubility import polygon_parts
 
         rings = []
-        for part in _polygon_parts(self.region):
+        for part in polygon_parts(self.region):
             rings.append(
                 [[round(float(a), 6), round(float(b), 6)] for a, b in part.exterior.coords[:-1]]
             )
@@ -226,10 +231,10 @@ def _best_point(region, k):
     from shapely import affinity
     from shapely.ops import polylabel
 
-    from pourbaix.analyses.solubility import _polygon_parts
+    from pourbaix.analyses.solubility import polygon_parts
 
     best, radius = None, -1.0
-    for part in _polygon_parts(region):
+    for part in polygon_parts(region):
         scaled = affinity.scale(part, xfact=1.0, yfact=1.0 / k, origin=(0.0, 0.0))
         p = polylabel(scaled, tolerance=1e-6)
         r = scaled.exterior.distance(p)
@@ -375,7 +380,7 @@ def leach_window(
     """
     from shapely.geometry import Polygon
 
-    _check_basis(basis)
+    check_basis(basis)
     target = _elements(dissolve, "dissolve")
     if len(target) != 1:
         raise OptionError(
@@ -387,7 +392,7 @@ def leach_window(
         raise OptionError(f"{target} is both the element to dissolve and one to keep solid")
     if len(set(keep)) != len(keep):
         raise OptionError(f"keep_solid lists an element twice: {' '.join(keep)}")
-    lo_level = _check_level(min_dissolved, "min_dissolved")
+    lo_level = check_level(min_dissolved, "min_dissolved")
     if isinstance(max_dissolved, dict):
         unknown = set(max_dissolved) - set(keep)
         if unknown:
@@ -397,9 +402,9 @@ def leach_window(
         missing = [el for el in keep if el not in max_dissolved]
         if missing:
             raise OptionError(f"max_dissolved: give a level for {', '.join(missing)} too")
-        hi_levels = {el: _check_level(max_dissolved[el], f"max_dissolved[{el}]") for el in keep}
+        hi_levels = {el: check_level(max_dissolved[el], f"max_dissolved[{el}]") for el in keep}
     else:
-        v = _check_level(max_dissolved, "max_dissolved")
+        v = check_level(max_dissolved, "max_dissolved")
         hi_levels = {el: v for el in keep}
 
     if maps is not None:
@@ -508,9 +513,9 @@ def _add_geometry(ax, geom, **kw):
     from matplotlib.patches import PathPatch
     from matplotlib.path import Path
 
-    from pourbaix.analyses.solubility import _polygon_parts
+    from pourbaix.analyses.solubility import polygon_parts
 
-    for part in _polygon_parts(geom):
+    for part in polygon_parts(geom):
         verts, codes = [], []
         for ring in (part.exterior, *part.interiors):
             pts = np.asarray(ring.coords)
@@ -662,7 +667,7 @@ def _fmt_bounds(b, unit):
 _BEYOND_PH = "more than 1 mol/kg hydroxide, beyond any real solution"
 
 
-def _describe(window):
+def describe_window(window):
     """Plain-text lines describing a window (used by the command line)."""
     out = []
     w = window
@@ -706,3 +711,7 @@ def _describe(window):
     if not math.isfinite(w.area):
         raise ConditionsError("window area is not finite")
     return out
+
+
+# old private names, kept one release for code not yet moved to the public ones
+_describe = describe_window

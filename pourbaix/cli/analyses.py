@@ -327,7 +327,7 @@ def _cmd_solubility(a, map_kwargs):
 
 # ------------------------------------------------------------------ window
 def _cmd_window(a, map_kwargs):
-    from pourbaix.analyses.windows import _describe, draw_window, leach_window
+    from pourbaix.analyses.windows import describe_window, draw_window, leach_window
 
     target = _one_element(a, "window")
     outs = _outputs(a.out, (*_FIGURES, ".json"))
@@ -347,7 +347,7 @@ def _cmd_window(a, map_kwargs):
     if a.json:
         print(json.dumps(w.to_dict(), indent=2, ensure_ascii=False))
     else:
-        print("\n".join(_describe(w)))
+        print("\n".join(describe_window(w)))
         for note in w.notes[1:]:
             print(f"  note: {note}")
     for o in outs:
@@ -365,8 +365,8 @@ def _cmd_field(a, map_kwargs):
     from dataclasses import replace
 
     from pourbaix.analyses.field import (
-        _table_lines,
         draw_field_groups,
+        field_table_lines,
         place_readings_at_temperature,
         read_field_csv,
     )
@@ -428,7 +428,7 @@ def _cmd_field(a, map_kwargs):
             f"{len(data.rows)} reading(s) on {where}, potentials vs {c.reference}; "
             f"{len(data.problems)} row(s) skipped"
         )
-        print("\n".join(_table_lines(data, groups)))
+        print("\n".join(field_table_lines(data, groups)))
         for n in data.notes:
             print(f"note: {n}")
         if any(r.state == "passivation" for r in data.rows):
@@ -535,7 +535,7 @@ def _cmd_reading(a, map_kwargs):
 
 # ------------------------------------------------------------------ compare
 def _cmd_compare(a, map_kwargs):
-    from pourbaix.analyses.compare import _table_lines, compare_maps, draw_comparison
+    from pourbaix.analyses.compare import compare_maps, comparison_table_lines, draw_comparison
     from pourbaix.maps.domain_map import compute_map
     from pourbaix.tables.species import load_species
 
@@ -598,7 +598,7 @@ def _cmd_compare(a, map_kwargs):
             )
         )
     else:
-        print("\n".join(_table_lines(cmp)))
+        print("\n".join(comparison_table_lines(cmp)))
     for o in outs:
         if o.suffix.lower() == ".json":
             _write_text(

@@ -10,7 +10,7 @@ _SKIP = ("H", "O")
 
 
 def _routes(species) -> list[str]:
-    """Temperature routes the rows of one element allow (DESIGN 2: van't Hoff and Cp routes)."""
+    """Temperature routes the rows of one element allow (van't Hoff and heat-capacity routes; Anderson & Crerar 1993)."""
     routes = []
     if any(getattr(s, "hkf_omega_cal_mol", None) is not None for s in species):
         routes.append("HKF")

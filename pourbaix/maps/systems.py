@@ -1,6 +1,6 @@
 """Ligand systems (predominant-ligand method) and several metals at a fixed ratio.
 
-Two extensions of the single-element map (DESIGN §2.4, §2.5):
+Two extensions of the single-element map (Pourbaix 1974, ch. II; Dantzig 1963, ch. 3):
 
 * **Ligands.** Sulfur, carbonate, chloride, ammonia and cyanide have their own
   speciation over pH and potential. The ligand's own map is computed first at
@@ -195,7 +195,7 @@ def _ligand_energies(table, fam, activity, ctx, g_atom, leave_out=frozenset(), i
         m = comp[fam.counted]
         if any(comp.get(el, 0) * unit[fam.counted] != m * unit[el] for el in others):
             continue  # not made of whole units of this ligand
-        # dissolved ligand species at the total activity shared by its atoms (DESIGN §2.4)
+        # dissolved ligand species at the total activity shared by its atoms (Pourbaix 1974, ch. II)
         act = activity / m if sp.phase == "aq" else 1.0
         se = energies.species_energy(sp, fam.counted, ctx, act, 1.0, ligand_elements=others)
         plane = _formation_plane(se, fam.counted, ctx, g_atom)
@@ -402,7 +402,7 @@ class SystemMap(DomainMap):
         -----
         The predominant species of each ligand is the argmin of its own
         planes; the stable unit is the argmin of the units' planes less the
-        ligand term of those species (DESIGN §2.4). Margins are the nearest
+        ligand term of those species (Pourbaix 1974, ch. II). Margins are the nearest
         crossing of either kind in each direction: every ligand boundary is
         also an assemblage boundary. Exact, and valid beyond the window.
         Points are handled in chunks so memory stays bounded with thousands of
@@ -861,8 +861,8 @@ def compute_system_map(
 
     Notes
     -----
-    Ligands: DESIGN §2.4 (predominant-ligand method; Pourbaix 1974, ch. II).
-    Several metals: DESIGN §2.5; the entry plane is ``Σ n_s Φ_s`` per mole of
+    Ligands: predominant-ligand method (Pourbaix 1974, ch. II; Garrels & Christ 1965, ch. 7).
+    Several metals: basic solutions of the linear programme (Dantzig 1963, ch. 3); the entry plane is ``Σ n_s Φ_s`` per mole of
     metal, Φ_s the transformed energy of forming species s from the elements,
     water, H+ and electrons.
 
@@ -985,7 +985,7 @@ def compute_system_map(
     units, base, nu_units = [], [], []
     for idx, amounts in combos:
         order = sorted(idx, key=lambda i: (order_key[i], i))
-        plane = amounts @ phis[list(idx)]  # Σ n_s Φ_s per mole of metal (DESIGN §2.5)
+        plane = amounts @ phis[list(idx)]  # Σ n_s Φ_s per mole of metal (Dantzig 1963)
         nu = amounts @ nus[list(idx)]
         metal_states = {
             m: _combined_state([states[i][m] for i in order if m in states[i]]) for m in elements

@@ -1,6 +1,6 @@
 """Mass-balance systems: metal and ligand species as rows over conserved components.
 
-A mass-balanced calculation (DESIGN §2.10) needs, for every species that may
+A mass-balanced calculation (Smith & Missen 1982, Chemical Reaction Equilibrium Analysis) needs, for every species that may
 form, how many units of each conserved component it holds (the metals and the
 ligand units: N for ammonia, CN for cyanide, S, C, Cl) and its transformed
 standard energy as a plane over (pH, E). H and O are not conserved: they come

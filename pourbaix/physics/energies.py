@@ -1,7 +1,7 @@
 """Transformed free energies: each species as a plane over (pH, potential).
 
 For a species i = M_x H_h O_o (charge z) formed from the metal M, water,
-H+ and electrons (DESIGN §2.1; Pourbaix 1974, ch. II),
+H+ and electrons (Pourbaix 1974, ch. II),
 
     x M + o H2O  ->  i + (2o - h) H+ + (2o - h + z) e-
 
@@ -15,7 +15,7 @@ at T (Benson-Helgeson convention). G(H+) = 0 and G_e = G(H2, g)/2 at every T,
 so the standard hydrogen electrode is the zero of potential at every
 temperature. Dividing by F gives psi in volts, the unit used throughout.
 Ligand atoms (S, C, Cl, N ...) are taken from the ligand species that
-predominates at the point (predominant-ligand method, DESIGN §2.4); the planes
+predominates at the point (predominant-ligand method, Pourbaix 1974, ch. II); the planes
 here carry that species' own plane, so the subtraction stays linear.
 """
 
@@ -477,7 +477,7 @@ def species_energy(sp, element, ctx, activity=1.0, gamma=1.0, ligand_elements=()
     k = ctx.nernst_v
     n_h = 2 * o - h
     n_e = 2 * o - h + z
-    # DESIGN §2.1: dG_r = G_i + n_e G_e - x G_M - o G_w  (formation from M, H2O, H+, e-)
+    # Pourbaix 1974, ch. II: dG_r = G_i + n_e G_e - x G_M - o G_w  (formation from M, H2O, H+, e-)
     dg_r = (
         dg + n_e * ctx.g_electron_kj - x * ctx.element_g_kj.get(element, 0.0) - o * ctx.g_water_kj
     )

@@ -34,6 +34,7 @@ __all__ = [
     "nernst_potential",
     "nernst_text",
     "water_ion_product_log10",
+    "net_reaction",
 ]
 
 _PHASE_PREFERENCE = ("s", "l", "g", "aq")  # a name without phase: the usual standard state first
@@ -215,7 +216,7 @@ def _parse_side(text: str, side: str, whole: str, table: SpeciesTable):
     return terms, electrons
 
 
-def _net(left, right):
+def net_reaction(left, right):
     """Cancel species written on both sides; return the two sides with positive coefficients."""
     net: dict = {}
     order: list = []
@@ -304,7 +305,7 @@ def parse_half_reaction(text: str, table: SpeciesTable | None = None) -> HalfRea
     left, e_left = _parse_side(sides[0], "left", text, table)
     right, e_right = _parse_side(sides[1], "right", text, table)
     electrons = e_left - e_right
-    ox, red = _net(left, right)
+    ox, red = net_reaction(left, right)
     problems = _balance_problems(ox, red, electrons)
     if problems:
         raise ReactionError(f"half-reaction {text!r} does not balance: " + "; ".join(problems))
@@ -359,7 +360,7 @@ def from_reaction(reaction: Reaction, table: SpeciesTable | None = None) -> Half
             right.append((sp, Fraction(c).limit_denominator(1000)))
         elif c < 0:
             left.append((sp, Fraction(-c).limit_denominator(1000)))
-    ox, red = _net(left, right)
+    ox, red = net_reaction(left, right)
     return HalfReaction(
         tuple((sp, float(c)) for sp, c in ox),
         tuple((sp, float(c)) for sp, c in red),
@@ -721,3 +722,7 @@ def nernst_text(half: HalfReaction, e0_v: float, temperature_c: float = 25.0) ->
     quotient = top if not bottom else f"{top} / " + (f"({bottom})" if len(den) > 1 else bottom)
     n = f"{half.electrons:g}"
     return f"E = {e0_v:+.4f} - ({k:.5f}/{n}) log10[{quotient}]"
+
+
+# old private names, kept one release for code not yet moved to the public ones
+_net = net_reaction

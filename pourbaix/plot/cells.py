@@ -21,7 +21,7 @@ _STYLES = (
 _COUPLE_COLOUR = "#b00020"
 
 
-def _pyplot():
+def load_pyplot():
     """Import pyplot, choosing the Agg backend only if the user chose none."""
     import matplotlib
 
@@ -80,7 +80,7 @@ def draw_evans(mixed, ax=None, *, reference="SHE", title=None):
 
     from pourbaix.analyses.cells import butler_volmer
 
-    plt = _pyplot()
+    plt = load_pyplot()
     if ax is None:
         fig, ax = plt.subplots(figsize=(7.0, 5.2))
         fig.subplots_adjust(left=0.13, right=0.96, top=0.9, bottom=0.2)
@@ -197,7 +197,7 @@ def draw_couple_maps(couple, *, overlay=False, palette="default"):
     """
     from pourbaix.plot.draw import draw_map, draw_overlay
 
-    plt = _pyplot()
+    plt = load_pyplot()
     metals = couple.metals
     if overlay:
         fig, ax = plt.subplots(figsize=(7.6, 6.2))

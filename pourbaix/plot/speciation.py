@@ -126,9 +126,9 @@ def draw_speciation(result, axes=None, *, molality=False, caption=True):
     s = result.system
     n_panels = 1 + (1 if s.ligands else 0)
     if axes is None:
-        from pourbaix.plot.style import _pyplot
+        from pourbaix.plot.style import load_pyplot
 
-        plt = _pyplot()
+        plt = load_pyplot()
         fig, axes = plt.subplots(
             n_panels,
             1,

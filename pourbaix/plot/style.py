@@ -19,7 +19,7 @@ import warnings
 from pathlib import Path
 
 from pourbaix.errors import OptionError
-from pourbaix.tables.formula import _TO_SUPER
+from pourbaix.tables.formula import TO_SUPERSCRIPT
 
 __all__ = [
     "text_width_pt",
@@ -52,6 +52,7 @@ __all__ = [
     "title_y",
     "FIGURE_SIZE_IN",
     "PALETTES",
+    "load_pyplot",
 ]
 
 
@@ -109,7 +110,7 @@ FIGURE_FORMATS = {".png": "png", ".svg": "svg", ".pdf": "pdf"}
 
 
 # ---------------------------------------------------------------- matplotlib
-def _pyplot():
+def load_pyplot():
     """Import pyplot, choosing the Agg backend only if the user chose none."""
     import matplotlib
 
@@ -124,7 +125,7 @@ def _pyplot():
 
 def new_axes(figsize=FIGURE_SIZE_IN):
     """A new figure and axes of the given size [in]."""
-    plt = _pyplot()
+    plt = load_pyplot()
     fig, ax = plt.subplots(figsize=figsize)
     return fig, ax
 
@@ -172,7 +173,7 @@ def power_text(x):
         return f"{x:g}"
     exp = math.floor(math.log10(abs(x)))
     mant = x / 10**exp
-    power = "10" + str(exp).translate(_TO_SUPER)
+    power = "10" + str(exp).translate(TO_SUPERSCRIPT)
     if abs(mant - round(mant)) < 1e-9 and round(mant) == 1:
         return power
     return f"{mant:.3g}×{power}"
@@ -448,3 +449,7 @@ def second_axis(ax, name, shift):
     sec.spines["right"].set_linewidth(0.9)
     sec.spines["right"].set_color(INK)
     return sec
+
+
+# old private names, kept one release for code not yet moved to the public ones
+_pyplot = load_pyplot

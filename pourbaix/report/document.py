@@ -44,7 +44,7 @@ __all__ = [
 REPORT_FORMATS = {".html": "html", ".htm": "html", ".md": "markdown"}
 
 #: Cautions every report carries after the map's own caution
-#: (``pourbaix.maps.domain_map.CAUTION``); DESIGN §7 and the README's "Safety and limits".
+#: (``pourbaix.maps.domain_map.CAUTION``); the README's "Safety and limits".
 REPORT_CAUTIONS = (
     "Maps are thermodynamic: they say nothing about rates, film quality, pitting, crevices, "
     "stress corrosion, microbiology (microbiologically influenced corrosion), galvanic coupling or "

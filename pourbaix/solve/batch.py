@@ -1,7 +1,7 @@
 """Many maps of one species set at once: their planes, and their answers, computed in numpy.
 
 A sweep over temperature, activity, molality or ionic strength keeps the
-species of a single-element map and changes only their planes (DESIGN §2.1):
+species of a single-element map and changes only their planes (Pourbaix 1974, ch. II):
 
     psi_i = c0_i + cph_i pH + ce_i E        [V per atom of the element]
 
@@ -176,7 +176,7 @@ def batch_planes(
     The conditions are checked and the energies built once per distinct
     (temperature, ionic strength) with the same functions as
     :func:`~pourbaix.maps.domain_map.compute_map`; each map's activities then enter c0 as
-    (k_T / x_i) log10 a_i (DESIGN §2.1).
+    (k_T / x_i) log10 a_i (Pourbaix 1974, ch. II).
 
     Examples
     --------
@@ -272,7 +272,7 @@ def batch_planes(
         la = np.log10(amounts[rows])[:, None] + (lg[None, :] if by_molality else 0.0)
         la = np.where(dissolved[None, :], la, 0.0)
         p = np.broadcast_to(base, (len(rows), N, 3)).copy()
-        # DESIGN §2.1: the activity term (k_T / x) log10 a_i of c0
+        # Pourbaix 1974, ch. II: the activity term (k_T / x) log10 a_i of c0
         p[:, :, 0] += ctx.nernst_v * la / x[None, :]
         planes[rows] = p
         log_a[rows] = la

@@ -9,7 +9,14 @@ from dataclasses import dataclass, field
 
 from pourbaix.errors import FormulaError
 
-__all__ = ["ELEMENTS", "PHASES", "Formula", "parse_formula"]
+__all__ = [
+    "ELEMENTS",
+    "PHASES",
+    "Formula",
+    "parse_formula",
+    "TO_SUPERSCRIPT",
+    "formula_readings",
+]
 
 # IUPAC periodic table (2016 names), hydrogen to oganesson.
 _ELEMENT_LIST = (
@@ -30,7 +37,7 @@ _PHASE_SUFFIX = re.compile(r"\((aq|s|cr|l|g)\)$")
 
 _SUPER = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹⁺⁻", "0123456789+-")
 _SUB = str.maketrans("₀₁₂₃₄₅₆₇₈₉", "0123456789")
-_TO_SUPER = str.maketrans("0123456789+-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁺⁻")
+TO_SUPERSCRIPT = str.maketrans("0123456789+-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁺⁻")
 _TO_SUB = str.maketrans("0123456789", "₀₁₂₃₄₅₆₇₈₉")
 _SUPER_CHARS = "⁰¹²³⁴⁵⁶⁷⁸⁹⁺⁻"
 _HYDRATE_SEPARATORS = "·*"
@@ -87,7 +94,7 @@ class Formula:
         body = re.sub(
             r"(?<=[A-Za-z)\]])(\d+)", lambda m: m.group(1).translate(_TO_SUB), _body(self.text)
         )
-        return body + _charge_suffix(self.charge, "%s").translate(_TO_SUPER).replace("^", "")
+        return body + _charge_suffix(self.charge, "%s").translate(TO_SUPERSCRIPT).replace("^", "")
 
     @property
     def elements(self) -> frozenset[str]:
@@ -430,7 +437,7 @@ def parse_formula(text: str, phase: str | None = None) -> Formula:
     return Formula(canon, types.MappingProxyType(comp), charge, phase)
 
 
-def _readings(text: str, phase: str | None = None) -> list[Formula]:
+def formula_readings(text: str, phase: str | None = None) -> list[Formula]:
     """Return the possible readings of ``text``: one, or two when the charge is ambiguous.
 
     Used for look-ups, where the table decides between ``NO3^-`` and ``NO^3-``.
@@ -444,3 +451,8 @@ def _readings(text: str, phase: str | None = None) -> list[Formula]:
         m = _PHASE_SUFFIX.search(text.strip())
         suffix = m.group() if m else ""
         return [parse_formula(a + suffix, phase) for a in alternatives]
+
+
+# old private names, kept one release for code not yet moved to the public ones
+_TO_SUPER = TO_SUPERSCRIPT
+_readings = formula_readings

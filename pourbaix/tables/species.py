@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from pourbaix.errors import DataFileError, FormulaError, OptionError, UnknownSpeciesError
-from pourbaix.tables.formula import ELEMENTS, PHASES, Formula, _readings, parse_formula
+from pourbaix.tables.formula import ELEMENTS, PHASES, Formula, formula_readings, parse_formula
 
 __all__ = [
     "COLUMNS",
@@ -26,8 +26,7 @@ __all__ = [
     "data_dir",
     "load_species",
     "read_species_file",
-    "read_sources_file",
-]
+    "read_sources_file", "parse_number", "read_csv_rows", "read_sources", "source_files",]
 
 # column -> (unit as written in messages, required)  -- DEVELOPERS.md, "Species tables"
 COLUMNS: dict[str, tuple[str, bool]] = {
@@ -364,7 +363,7 @@ class SpeciesTable:
         formula_text, _, form = name.partition(":")
         form = form.strip() or None
         try:
-            candidates = _readings(formula_text, phase)
+            candidates = formula_readings(formula_text, phase)
         except FormulaError as exc:
             raise UnknownSpeciesError(
                 f"unknown species {name!r} in data set {self.dataset!r}: {exc}"
@@ -405,7 +404,7 @@ class SpeciesTable:
         close += [by_name[c] for c in difflib.get_close_matches(name, list(by_name), 5, 0.6)]
         hydrates: list[str] = []
         try:
-            f = _readings(name.partition(":")[0])[0]
+            f = formula_readings(name.partition(":")[0])[0]
         except FormulaError:
             f = None
         if f is not None:
@@ -475,7 +474,7 @@ def data_dir() -> Path:
     return Path(__file__).resolve().parents[2] / "species_data"
 
 
-def _read_lines(path: Path, display: str, problems: list) -> list[tuple[int, list[str]]]:
+def read_csv_rows(path: Path, display: str, problems: list) -> list[tuple[int, list[str]]]:
     """Return ``(line number, fields)`` for the header and data lines of a CSV file."""
     try:
         raw = path.read_bytes()
@@ -548,7 +547,7 @@ def _header_problems(header: list[str], display: str, line: int, allowed: dict) 
     return problems
 
 
-def _number(text: str) -> float | None:
+def parse_number(text: str) -> float | None:
     """Parse a decimal number; a unicode minus is accepted. None when not a number."""
     t = text.replace("\u2212", "-")
     if len(t) > _NUMBER_MAX_LENGTH:
@@ -590,15 +589,16 @@ def read_sources_file(path: str | Path, display: str | None = None) -> dict[str,
     DataFileError
         With every problem of the file.
     """
-    sources, problems = _read_sources(Path(path), display or str(path))
+    sources, problems = read_sources(Path(path), display or str(path))
     if problems:
         raise DataFileError(problems)
     return sources
 
 
-def _read_sources(path: Path, display: str) -> tuple[dict[str, str], list]:
+def read_sources(path: Path, display: str) -> tuple[dict[str, str], list]:
+    """Read a sources file: ``(key -> citation, problems)``; problems are (file, line, column, message)."""
     problems: list = []
-    rows = _read_lines(path, display, problems)
+    rows = read_csv_rows(path, display, problems)
     sources: dict[str, str] = {}
     if not rows:
         if not problems:
@@ -688,7 +688,7 @@ def _read_species(
     path: Path, display: str, known_sources: Mapping[str, str] | None
 ) -> tuple[list[Species], list]:
     problems: list = []
-    rows = _read_lines(path, display, problems)
+    rows = read_csv_rows(path, display, problems)
     if not rows:
         if not problems:
             problems.append((display, 1, 0, "empty species table: expected a header row"))
@@ -801,7 +801,7 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems) ->
         if not text:
             values[name] = None
             continue
-        x = _number(text)
+        x = parse_number(text)
         if x is None:
             add(name, f"{name}: {text!r} is not a number (unit {COLUMNS[name][0]})")
         elif not math.isfinite(x):
@@ -906,7 +906,7 @@ def _datasets_in(root: Path) -> dict[str, str]:
     f = root / "datasets.csv"
     if f.is_file():
         problems: list = []
-        rows = _read_lines(f, "species_data/datasets.csv", problems)
+        rows = read_csv_rows(f, "species_data/datasets.csv", problems)
         if problems:
             raise DataFileError(problems)
         if rows:
@@ -946,7 +946,8 @@ def _species_files(folder: Path) -> list[Path]:
     )
 
 
-def _source_files(folder: Path) -> list[Path]:
+def source_files(folder: Path) -> list[Path]:
+    """The ``sources*.csv`` files of a data folder, sorted."""
     return sorted(p for p in folder.glob("sources*.csv") if p.is_file())
 
 
@@ -982,9 +983,9 @@ def _embedded(
     sources: dict[str, str] = {}
     source_line: dict[str, str] = {}
     for folder in folders:
-        for f in _source_files(folder):
+        for f in source_files(folder):
             disp = "species_data/" + f.relative_to(root).as_posix()
-            got, probs = _read_sources(f, disp)
+            got, probs = read_sources(f, disp)
             problems += probs
             for k, v in got.items():
                 if k in sources:
@@ -1091,3 +1092,10 @@ def load_species(dataset: str = "default", user_files: Sequence[str | Path] = ()
         overrides=tuple(overrides),
         dataset_changes=changes,
     )
+
+
+# old private names, kept one release for code not yet moved to the public ones
+_number = parse_number
+_read_lines = read_csv_rows
+_read_sources = read_sources
+_source_files = source_files

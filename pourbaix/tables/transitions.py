@@ -10,7 +10,13 @@ from pathlib import Path
 
 from pourbaix.errors import DataFileError, FormulaError
 from pourbaix.tables.formula import PHASES, parse_formula
-from pourbaix.tables.species import _number, _read_lines, _read_sources, _source_files, data_dir
+from pourbaix.tables.species import (
+    data_dir,
+    parse_number,
+    read_csv_rows,
+    read_sources,
+    source_files,
+)
 
 __all__ = [
     "TRANSITION_COLUMNS",
@@ -130,7 +136,7 @@ def read_transitions_file(
 
 def _read_transitions(path: Path, display: str, known_sources) -> tuple[dict, list]:
     problems: list = []
-    rows = _read_lines(path, display, problems)
+    rows = read_csv_rows(path, display, problems)
     if not rows:
         return {}, problems
     hline, header = rows[0]
@@ -187,7 +193,7 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems):
         values[name] = None
         if not text:
             continue
-        x = _number(text)
+        x = parse_number(text)
         if x is None or not math.isfinite(x):
             add(name, f"{name}: {text!r} is not a finite number ({TRANSITION_COLUMNS[name][0]})")
         else:
@@ -228,8 +234,8 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems):
 def _embedded(root: Path) -> dict[tuple[str, str], tuple[PhaseTransition, ...]]:
     sources: dict[str, str] = {}
     problems: list = []
-    for f in _source_files(root):
-        got, probs = _read_sources(f, "species_data/" + f.name)
+    for f in source_files(root):
+        got, probs = read_sources(f, "species_data/" + f.name)
         sources.update(got)
         problems += probs
     folder = root / "transitions"
