@@ -425,9 +425,11 @@ def _reference(reference, temperature_c):
     from pourbaix.physics import electrodes
 
     info = electrodes.get_reference(reference)
-    off0 = float(electrodes.reference_offset(info.name, temperature_c, ph=0.0))
-    off1 = float(electrodes.reference_offset(info.name, temperature_c, ph=1.0)) - off0
-    return info.name, off0, off1
+    # the offset at pH 0 and its change per pH unit (non-zero for RHE only), in one call
+    at0, at1 = np.asarray(
+        electrodes.reference_offset(info.name, temperature_c, ph=[0.0, 1.0]) * np.ones(2)
+    )
+    return info.name, float(at0), float(at1 - at0)
 
 
 # ------------------------------------------------------------------ the builder

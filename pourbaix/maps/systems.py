@@ -94,13 +94,14 @@ def _unit_matrix(families):
 
 
 # ------------------------------------------------------------------ energies
-def _g_per_atom(table, element, temperature_c, pressure_bar=1.0):
+def _g_per_atom(table, element, temperature_c, pressure_bar=1.0, water=None):
     """Apparent Gibbs energy of an element's reference state per atom at (T, P) [kJ/mol]."""
     ref = energies.reference_species(table, element)
     n = dict(ref.composition)[element]
     if temperature_c == 25.0 and pressure_bar == 1.0:
         return ref.dgf_kj_mol / n
-    return float(thermo.species_gibbs(ref, temperature_c, pressure_bar).dg_kj_mol) / n
+    res = thermo.species_gibbs(ref, temperature_c, pressure_bar, water=water)
+    return float(res.dg_kj_mol) / n
 
 
 def _formation_plane(se, element, ctx, g_atom):
@@ -761,7 +762,8 @@ def compute_ligand_map(
     conditions = replace(conditions, dataset=table.dataset)
     ctx = energies.context_for(table, conditions, elements=())
     g_atom = {
-        el: _g_per_atom(table, el, ctx.temperature_c, ctx.pressure_bar) for el in fam.elements
+        el: _g_per_atom(table, el, ctx.temperature_c, ctx.pressure_bar, ctx.water)
+        for el in fam.elements
     }
     water_she = energies.water_lines(ctx)
     water_sp = energies.water_energy(table, ctx)
@@ -901,7 +903,10 @@ def compute_system_map(
     ctx = energies.context_for(table, conditions)
     off0, off1 = conditions.reference_offset_v, conditions.reference_slope_v_per_ph
     t = ctx.temperature_c
-    g_atom = {el: _g_per_atom(table, el, t, ctx.pressure_bar) for el in (*elements, *lig_elements)}
+    g_atom = {
+        el: _g_per_atom(table, el, t, ctx.pressure_bar, ctx.water)
+        for el in (*elements, *lig_elements)
+    }
     system = _system_name(elements, families)
     if slow_species not in ("exclude", "include"):
         raise OptionError(f"slow_species must be exclude or include; got {slow_species!r}")

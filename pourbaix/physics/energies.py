@@ -74,6 +74,9 @@ class EnergyContext:
     entropy_estimates : dict
         ``(name, phase)`` -> ``(S° [J/(mol K)], how)`` for species the tables
         give without S° (:func:`entropy_estimates`).
+    water : WaterProperties or None
+        Water at (T, P) from the checked conditions, passed on so that no
+        species' energy checks or looks up the conditions again.
     """
 
     temperature_c: float
@@ -86,6 +89,7 @@ class EnergyContext:
     element_g_kj: dict
     aqueous_route: str = "hkf"
     entropy_estimates: dict = field(default_factory=dict)
+    water: object = None
 
 
 @dataclass(frozen=True)
@@ -120,10 +124,16 @@ class SpeciesEnergy:
     plane: tuple
 
 
+# Water at the (T, P) states of checked conditions, so that the energy of each species
+# neither checks the conditions again nor looks water up again (filled by _context).
+_CHECKED_WATER = {}
+
+
 def _gibbs(sp, temperature_c, pressure_bar=1.0, aqueous_route="hkf"):
     if temperature_c == 25.0 and pressure_bar == 1.0:
         return sp.dgf_kj_mol, "25 °C value", float("inf")
-    res = thermo.species_gibbs(sp, temperature_c, pressure_bar, aqueous_route)
+    water = _CHECKED_WATER.get((temperature_c, pressure_bar))
+    res = thermo.species_gibbs(sp, temperature_c, pressure_bar, aqueous_route, water=water)
     return float(res.dg_kj_mol), res.route, float(res.valid_to_c)
 
 
@@ -359,6 +369,9 @@ def _context(table, t, props, nernst_v, water_activity, elements):
     else:
         # the table's 25 °C value carried to (T, P) by IAPWS-95 (keeps one source for water)
         g_w = water.dgf_kj_mol + float(props.gibbs_kj_mol - thermo.water_gibbs(T_REF_C, 1.0))
+    if len(_CHECKED_WATER) > 256:
+        _CHECKED_WATER.clear()
+    _CHECKED_WATER[(t, p)] = props
     g_h2 = _gibbs(h2, t, p, route)[0]
     g_o2 = _gibbs(o2, t, p, route)[0]
     element_g = {}
@@ -377,6 +390,7 @@ def _context(table, t, props, nernst_v, water_activity, elements):
         entropy_estimates=(
             entropy_estimates(table) if route == "hkf" and (t, p) != (T_REF_C, 1.0) else {}
         ),
+        water=props,
     )
 
 

@@ -614,7 +614,7 @@ def _volume_term(species_like, pressure_bar, transitions_crossed=()):
     return v * (pressure_bar - P_REF_BAR) * 0.1 / 1000.0, True
 
 
-def species_gibbs(species_like, temperature_c, pressure_bar=None, aqueous_route="hkf"):
+def species_gibbs(species_like, temperature_c, pressure_bar=None, aqueous_route="hkf", water=None):
     """Apparent Gibbs energy of one species at (T, P), with the route taken.
 
     Parameters
@@ -634,6 +634,10 @@ def species_gibbs(species_like, temperature_c, pressure_bar=None, aqueous_route=
     aqueous_route : str
         ``"hkf"`` (default) or ``"criss-cobble"`` (the older routes for
         aqueous species, kept for comparison).
+    water : WaterProperties, optional
+        Water at (T, P) already computed from checked conditions (e.g.
+        ``Conditions.water``); then the temperature is not checked again and
+        ``pressure_bar`` is taken from it.
 
     Returns
     -------
@@ -684,9 +688,13 @@ def species_gibbs(species_like, temperature_c, pressure_bar=None, aqueous_route=
         raise OptionError(
             f"unknown aqueous route {aqueous_route!r}; valid: {', '.join(AQUEOUS_ROUTES)}"
         )
-    t = check_temperature(temperature_c)
-    if not isinstance(t, float):
-        raise ConditionsError("species_gibbs takes one temperature at a time")
+    if water is not None:
+        # checked conditions (pourbaix.conditions): neither re-checked nor looked up again
+        t, pressure_bar = float(temperature_c), water.pressure_bar
+    else:
+        t = check_temperature(temperature_c)
+        if not isinstance(t, float):
+            raise ConditionsError("species_gibbs takes one temperature at a time")
     phase = getattr(species_like, "phase", None)
     charge = int(round(float(getattr(species_like, "charge", 0) or 0)))
     composition = getattr(species_like, "composition", None) or {}
@@ -700,7 +708,8 @@ def species_gibbs(species_like, temperature_c, pressure_bar=None, aqueous_route=
     if _is_liquid_water(phase, charge, composition):
         if t == T_REF_C and reference_pressure:
             return GibbsResult(dgf, "25 °C value", T_MAX_C)
-        dg = water_gibbs(t, pressure_bar) - _WATER_DGF_KJ_MOL + dgf
+        g = water.gibbs_kj_mol if water is not None else water_gibbs(t, pressure_bar)
+        dg = g - _WATER_DGF_KJ_MOL + dgf
         return GibbsResult(dg, "IAPWS-95 (liquid water)", T_MAX_C)
     if t == T_REF_C and reference_pressure:
         return GibbsResult(dgf, "25 °C value", math.inf)
@@ -709,7 +718,8 @@ def species_gibbs(species_like, temperature_c, pressure_bar=None, aqueous_route=
     if s is None:
         # nothing to carry the value to T: keep it and flag it as good for 25 °C only
         return GibbsResult(dgf, "no entropy: 25 °C value", T_REF_C)
-    water = water_properties(t, pressure_bar)
+    if water is None:
+        water = water_properties(t, pressure_bar)
     p = water.pressure_bar
     if phase == "aq" and aqueous_route == "hkf":
         from pourbaix.physics import hkf
