@@ -101,3 +101,12 @@ def test_conditions_and_keywords_do_not_mix():
     c = make_conditions("Fe")
     with pytest.raises(OptionError, match="not both"):
         compute_map(conditions=c, activity=1e-4)
+
+
+def test_a_map_is_immutable_once_built():
+    m = compute_map("Fe")
+    with pytest.raises(dataclasses.FrozenInstanceError, match="immutable"):
+        m.domains = []
+    s = compute_map("Cu", ligands={"S": 1e-3})
+    with pytest.raises(dataclasses.FrozenInstanceError):
+        s.never_stable = []

@@ -111,11 +111,10 @@ def build_map(
         warnings=warnings_list,
         sources=sources,
         extra_species=list(extra_species),
+        _planes=planes,
+        _active=active,
+        **({"method": method} if method else {}),
     )
-    if method:
-        m.method = method
-    m._planes = planes
-    m._active = active
     return m
 
 

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import json
 import math
-from dataclasses import dataclass, field
+from dataclasses import FrozenInstanceError, dataclass, field
 
 import numpy as np
 
@@ -221,6 +221,15 @@ class DomainMap:
     _planes: object = None
     _neutral_ph: float | None = None
 
+    def __post_init__(self):
+        object.__setattr__(self, "_sealed", True)
+
+    def __setattr__(self, name, value):
+        # public fields are fixed once the map is built (private caches may be set)
+        if not name.startswith("_") and getattr(self, "_sealed", False):
+            raise FrozenInstanceError(f"cannot assign to field {name!r}: a map is immutable")
+        object.__setattr__(self, name, value)
+
     # ------------------------------------------------------------------ queries
     @property
     def window(self):
@@ -230,15 +239,13 @@ class DomainMap:
     @property
     def neutral_ph(self):
         """Neutral pH at the map's temperature (pKw / 2)."""
-        if self._neutral_ph is None and self.conditions.neutral_ph is not None:
-            self._neutral_ph = self.conditions.neutral_ph
-        if self._neutral_ph is None:
-            from pourbaix.physics import thermo
+        if self._neutral_ph is not None:  # set for invented systems (no water data)
+            return self._neutral_ph
+        if self.conditions.neutral_ph is not None:
+            return self.conditions.neutral_ph
+        from pourbaix.physics import thermo  # conditions built by hand carry no water properties
 
-            self._neutral_ph = float(
-                thermo.neutral_ph(self.conditions.temperature_c, self.conditions.pressure_bar)
-            )
-        return self._neutral_ph
+        return float(thermo.neutral_ph(self.conditions.temperature_c, self.conditions.pressure_bar))
 
     def domain_of(self, name):
         """The domain of a species (or assemblage text); None if not stable.

@@ -1081,9 +1081,8 @@ def compute_system_map(
             conditions, units, species_list, water_she, warn, sources, method="; ".join(method)
         )
         fields = {f: getattr(m, f) for f in DomainMap.__dataclass_fields__}
-        sm = SystemMap(**fields)
     else:
-        sm = _overlay_map(
+        fields = _overlay_map(
             conditions,
             units,
             base,
@@ -1097,17 +1096,20 @@ def compute_system_map(
             sources,
             "; ".join(method),
         )
-    sm.ligand_maps = ligand_maps
-    sm.units = units
-    sm._base = base
-    sm._nu = nu_units
-    sm._ligand_planes = ligand_planes
-    sm._ligand_names = ligand_names
-    stable = {n for d in sm.domains for n in d.species}
-    sm.never_stable = list(
+    stable = {n for d in fields["domains"] for n in d.species}
+    fields["never_stable"] = list(
         dict.fromkeys(
             species_id(se.species) for se in metal_rows if species_id(se.species) not in stable
         )
+    )
+    sm = SystemMap(
+        **fields,
+        ligand_maps=ligand_maps,
+        units=units,
+        _base=base,
+        _nu=nu_units,
+        _ligand_planes=ligand_planes,
+        _ligand_names=ligand_names,
     )
     _ligand_warnings(sm, families, activity if activity is not None else molality, metal_rows, nus)
     return sm
@@ -1265,7 +1267,7 @@ def _overlay_map(
         k: (e0 - conditions.reference_offset_v, s - conditions.reference_slope_v_per_ph)
         for k, (e0, s) in water_she.items()
     }
-    sm = SystemMap(
+    return dict(
         conditions=conditions,
         species=list(species_list),
         entries=entries,
@@ -1276,10 +1278,10 @@ def _overlay_map(
         warnings=warn,
         method=method,
         sources=sources,
+        extra_species=[],
+        _planes=np.array([e.plane for e in entries]) if entries else np.zeros((0, 3)),
+        _active=np.arange(len(entries)),
     )
-    sm._planes = np.array([e.plane for e in entries]) if entries else np.zeros((0, 3))
-    sm._active = np.arange(len(entries))
-    return sm
 
 
 def _ligand_label(ligand_maps, f, k):
