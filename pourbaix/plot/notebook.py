@@ -34,9 +34,9 @@ def map_png(dmap, dpi=NOTEBOOK_DPI):
     True
     """
     from pourbaix.plot.maps import draw_map
-    from pourbaix.plot.style import _pyplot
+    from pourbaix.plot.style import load_pyplot
 
-    plt = _pyplot()
+    plt = load_pyplot()
     ax = draw_map(dmap)
     buffer = io.BytesIO()
     try:
