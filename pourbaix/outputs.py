@@ -17,12 +17,26 @@ __all__ = [
     "all_or_nothing",
     "check_writable",
     "check_outputs",
+    "discarded_outputs",
 ]
 
 # Files written inside all_or_nothing(): (finished temporary file, destination), moved
 # into place together when the block ends without an error.
 _STAGED = contextvars.ContextVar("pourbaix_staged_outputs", default=None)
 _TEMP_PREFIX = ".pourbaix-"
+# Destinations whose finished files the last failing all_or_nothing() block discarded.
+_LAST_DISCARDED = []
+
+
+def discarded_outputs():
+    """Files the last failing :func:`all_or_nothing` block had finished and then discarded.
+
+    Returns
+    -------
+    list of str
+        Their destinations (none of them was written or replaced).
+    """
+    return list(_LAST_DISCARDED)
 
 
 def _name_max(folder):
@@ -117,10 +131,12 @@ def all_or_nothing():
         return
     staged = []
     token = _STAGED.set(staged)
+    _LAST_DISCARDED[:] = []
     try:
         yield
     except BaseException:
         _STAGED.reset(token)
+        _LAST_DISCARDED[:] = [str(target) for _, target in staged]
         _discard(staged)
         raise
     _STAGED.reset(token)

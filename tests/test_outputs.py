@@ -76,6 +76,9 @@ def test_a_failing_report_keeps_the_map_files_from_appearing(tmp_path, capsys, m
         str(tmp_path / "zn.html"),
     )
     assert code == 2 and "report could not be rendered" in err
+    # the map file was finished before the report failed: the message says it was discarded
+    assert "nothing was written: 1 finished file(s) discarded" in err
+    assert len([line for line in err.splitlines() if "error:" in line]) == 1
     assert list(tmp_path.iterdir()) == []
 
 

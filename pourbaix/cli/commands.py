@@ -825,17 +825,27 @@ def main(argv=None):
         with all_or_nothing():
             return a.func(a) or 0
     except PourbaixError as exc:
-        print(f"pourbaix: error: {_one_message(exc)}", file=sys.stderr)
+        print(f"pourbaix: error: {_one_message(exc)}{_nothing_written()}", file=sys.stderr)
         return 2
     except BrokenPipeError:  # pragma: no cover
         return 0
     except OSError as exc:  # anything the system refused that no check above foresaw
         where = f" ({_one_message(exc.filename)})" if getattr(exc, "filename", None) else ""
-        print(f"pourbaix: error: {exc.strerror or exc}{where}", file=sys.stderr)
+        print(f"pourbaix: error: {exc.strerror or exc}{where}{_nothing_written()}", file=sys.stderr)
         return 2
     except MemoryError:
         print("pourbaix: error: out of memory; make the problem smaller", file=sys.stderr)
         return 2
+
+
+def _nothing_written():
+    """Words for the error line when files reported as written were discarded after all."""
+    from pourbaix.outputs import discarded_outputs
+
+    gone = discarded_outputs()
+    if not gone:
+        return ""
+    return f" (nothing was written: {len(gone)} finished file(s) discarded, existing files kept)"
 
 
 def _one_message(exc, limit=4000):
