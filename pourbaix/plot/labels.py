@@ -28,6 +28,8 @@ __all__ = [
     "label_points",
     "needs_numbers",
     "number_pending",
+    "readable_pending",
+    "unlabelled_note",
 ]
 
 
@@ -311,10 +313,6 @@ def place_callout(placer, pole_px, w, h, avoid_points=(), avoid_polys=()):
         return None
     centres, boxes = centres[ok], boxes[ok]
     dist = np.hypot(centres[:, 0] - pole_px[0], centres[:, 1] - pole_px[1])
-    on_line = placer.lines_hit(boxes)
-    on_leader = (
-        _segments_hit_boxes(placer.leaders, boxes) if placer.leaders else np.zeros(len(boxes), bool)
-    )
     score = dist.copy()
     score += 30 * ppt * placer.lines_hit(boxes, soft=True)
     if len(avoid_points):
@@ -336,21 +334,47 @@ def place_callout(placer, pole_px, w, h, avoid_points=(), avoid_polys=()):
             geoms = shapely.box(boxes[near, 0], boxes[near, 1], boxes[near, 2], boxes[near, 3])
             inter = shapely.area(shapely.intersection(geoms, poly))
             score[near] += 600 * ppt * inter / max(w * h, 1.0)
-    # the leader of each spot: from the label point to the nearest point of the box
+    # tiers: a spot that breaks fewer rules always beats a nearer one that breaks more.
+    # The rule checks are the costly part, so they run on the spots in order of score,
+    # a chunk at a time, and stop at the first chunk holding a spot that breaks none:
+    # its first such spot is the one a full (tier, score) sort would choose.
+    order = np.argsort(score, kind="stable")
+    tiers = np.empty(len(boxes))
+    for start in range(0, len(order), _CALLOUT_CHUNK):
+        rows = order[start : start + _CALLOUT_CHUNK]
+        tiers[rows] = _callout_tiers(placer, pole_px, boxes[rows])
+        clean = np.flatnonzero(tiers[rows] == 0)
+        if len(clean):
+            return tuple(centres[rows[clean[0]]])
+    best = int(np.lexsort((score, tiers))[0])
+    return tuple(centres[best])
+
+
+_CALLOUT_CHUNK = 192  # candidate spots checked against the rules at a time
+
+
+def _callout_tiers(placer, pole_px, boxes):
+    """Rule-breaking tier of callout boxes: 4 on a boundary line, 2 on a leader, 1 a bad leader.
+
+    A bad leader (from the label point to the nearest point of the box) runs
+    through another box or crosses a leader already drawn.
+    """
+    on_line = placer.lines_hit(boxes)
+    on_leader = (
+        _segments_hit_boxes(placer.leaders, boxes) if placer.leaders else np.zeros(len(boxes), bool)
+    )
     qx = np.clip(pole_px[0], boxes[:, 0], boxes[:, 2])
     qy = np.clip(pole_px[1], boxes[:, 1], boxes[:, 3])
     own = np.column_stack(
         [np.full(len(boxes), pole_px[0]), np.full(len(boxes), pole_px[1]), qx, qy]
     )
     bad_leader = np.zeros(len(boxes), dtype=bool)
-    if len(placer.boxes):
-        bad_leader |= _hit_matrix(own, placer.boxes).any(axis=0)
+    taken = placer.boxes[~np.isnan(placer.boxes).any(axis=1)] if len(placer.boxes) else []
+    if len(taken):
+        bad_leader |= _hit_matrix(own, taken).any(axis=0)
     if placer.leaders:
         bad_leader |= _cross_matrix(own, placer.leaders).any(axis=1)
-    # tiers: a spot that breaks fewer rules always beats a nearer one that breaks more
-    tier = 4.0 * on_line + 2.0 * on_leader + 1.0 * bad_leader
-    best = int(np.lexsort((score, tier))[0])
-    return tuple(centres[best])
+    return 4.0 * on_line + 2.0 * on_leader + 1.0 * bad_leader
 
 
 def label_domains(ax, dmap, renderer, colours=None, *, light=False, fixed=(), soft_lines=()):
@@ -470,6 +494,41 @@ _NUMBER_SIZES = (7.0, 6.0)  # [pt] number in its circle: usual, then shrunk
 _NUMBER_PAD = 0.22  # circle padding, in units of the font size
 _KEY_SIZE = 8.0  # [pt] label text in the key
 _KEY_GAP_PT = 10.0  # [pt] between the axes decorations and the key, and between key columns
+_MAX_KEY_ENTRIES = 45  # a longer numbered key is unreadable: number only the larger domains
+_CROWDED_KEY_ENTRIES = 30  # on such a crowded map, the key lists at most this many
+_CALLOUT_MIN_AREA_PT2 = 1000.0  # [pt²] and, on it, smaller domains (under ~32 pt square, ~11 mm)
+# get no number; the key says how many and where they are listed
+
+
+def readable_pending(dmap, pending, polys_px, px_per_pt):
+    """Split the domains to be numbered into those shown and those left unlabelled.
+
+    Every domain is numbered while the key stays at most ``_MAX_KEY_ENTRIES``
+    long. Beyond that only the domains of at least ``_CALLOUT_MIN_AREA_PT2``
+    on the page are numbered (the largest ``_CROWDED_KEY_ENTRIES`` of them); the
+    others are left unlabelled and counted in the key.
+
+    Returns
+    -------
+    shown, hidden : list of int
+        Domain indices to number, and those left unlabelled.
+    """
+    if len(pending) <= _MAX_KEY_ENTRIES:
+        return list(pending), []
+    area_pt2 = {i: polys_px[i].area / px_per_pt**2 for i in pending}
+    by_size = sorted(pending, key=lambda i: -area_pt2[i])
+    shown = [i for i in by_size if area_pt2[i] >= _CALLOUT_MIN_AREA_PT2][:_CROWDED_KEY_ENTRIES]
+    kept = set(shown)
+    return [i for i in pending if i in kept], [i for i in pending if i not in kept]
+
+
+def unlabelled_note(count):
+    """The key's note on the small domains left unlabelled on a crowded map."""
+    return (
+        f"{count} small domain{'s' if count != 1 else ''} not labelled: numbers go only to the\n"
+        f"{_CROWDED_KEY_ENTRIES} largest domains of at least {_CALLOUT_MIN_AREA_PT2:g} pt² on the page.\n"
+        "The JSON export, pourbaix probe and the report list every domain."
+    )
 
 
 def needs_numbers(ax, dmap, placer, pending):
@@ -649,10 +708,12 @@ def number_pending(ax, dmap, placer, pending, polys_px, poles_px):
     return numbers
 
 
-def draw_key(ax, dmap, numbers, renderer, *, grow):
+def draw_key(ax, dmap, numbers, renderer, *, grow, unlabelled=0):
     """List "number  label" for the numbered domains to the right of the axes.
 
-    Entries fill columns as tall as the axes, as many columns as needed. When
+    Entries fill columns as tall as the axes, as many columns as needed; with
+    ``unlabelled`` domains left out (a crowded map), a note heading the key
+    counts them and says where they are listed. When
     ``grow`` is true (a figure of our own) the figure is widened so the key
     fits and the axes keep their size in inches; on a user's axes the key is
     placed the same way and the user sizes the figure.
@@ -664,7 +725,26 @@ def draw_key(ax, dmap, numbers, renderer, *, grow):
     right_pt = max(tight.x1 - ax.bbox.x1, 0.0) / ppt + _KEY_GAP_PT
     line_pt = _KEY_SIZE * 1.75
     height_pt = ax.bbox.height / ppt
-    rows = max(1, int(height_pt // line_pt))
+    top_pt = 0.0
+    note_w_pt = 0.0
+    if unlabelled:
+        note = ax.annotate(
+            unlabelled_note(unlabelled),
+            xy=(1.0, 1.0),
+            xycoords="axes fraction",
+            xytext=(right_pt, 0.0),
+            textcoords="offset points",
+            ha="left",
+            va="top",
+            fontsize=_KEY_SIZE - 1.0,
+            color="#3c3c3c",
+            annotation_clip=False,
+            gid="pourbaix-key-note:unlabelled",
+        )
+        ext = note.get_window_extent(renderer)
+        top_pt = ext.height / ppt + 6.0
+        note_w_pt = ext.width / ppt
+    rows = max(1, int((height_pt - top_pt) // line_pt))
     ncol = math.ceil(len(entries) / rows)
     rows = math.ceil(len(entries) / ncol)
     num_w_pt = (_KEY_SIZE - 1.0) * 1.9  # room for a two-digit number in its circle
@@ -673,7 +753,7 @@ def draw_key(ax, dmap, numbers, renderer, *, grow):
         chunk = entries[col * rows : (col + 1) * rows]
         widest = 0.0
         for r, (i, n) in enumerate(chunk):
-            y_pt = -(r + 0.5) * line_pt
+            y_pt = -top_pt - (r + 0.5) * line_pt
             num = ax.annotate(
                 str(n),
                 xy=(1.0, 1.0),
@@ -709,6 +789,7 @@ def draw_key(ax, dmap, numbers, renderer, *, grow):
             del num
             widest = max(widest, lab.get_window_extent(renderer).width / ppt)
         x_pt += num_w_pt + 4.0 + widest + _KEY_GAP_PT
+    x_pt = max(x_pt, right_pt + note_w_pt + _KEY_GAP_PT)
     if grow:
         w, h = fig.get_size_inches()
         need_in = (ax.bbox.x1 / ppt + x_pt) / 72.0

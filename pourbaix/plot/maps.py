@@ -18,6 +18,7 @@ from pourbaix.plot.labels import (
     label_points,
     needs_numbers,
     number_pending,
+    readable_pending,
 )
 from pourbaix.plot.layers import (
     add_caption,
@@ -189,6 +190,7 @@ def draw_map(
         offset += text.get_window_extent(renderer).height * 72.0 / fig.dpi
     if own:  # make room for what was measured below the axes
         fit_bottom(fig, offset + 8, right=right)
+    _fit_titles_and_label(ax, get_renderer(fig), grow=own)
     renderer = get_renderer(fig)
     if labels:
         soft = []
@@ -238,11 +240,58 @@ def draw_map(
             label_neutral(ax, placer, neutral)
     if labels:
         if needs_numbers(ax, dmap, placer, pending):
-            numbers = number_pending(ax, dmap, placer, pending, polys_px, poles_px)
-            draw_key(ax, dmap, numbers, renderer, grow=own)
+            shown, hidden = readable_pending(dmap, pending, polys_px, placer.px_per_pt)
+            numbers = number_pending(ax, dmap, placer, shown, polys_px, poles_px)
+            draw_key(ax, dmap, numbers, renderer, grow=own, unlabelled=len(hidden))
         else:
             label_pending(ax, dmap, placer, pending, polys_px, poles_px)
     return ax
+
+
+_TITLE_GAP_PT = 6.0  # [pt] least gap between the title and the subtitle on one line
+_EDGE_PT = 3.0  # [pt] least margin between the y-axis label and the figure's left edge
+
+
+def _fit_titles_and_label(ax, renderer, *, grow):
+    """Keep the title clear of the subtitle and the y-axis label on the figure.
+
+    A subtitle (right-hand title) that would run into the title moves onto a
+    line of its own below it, and the title moves up above it; a y-axis label
+    (a long reference name) that would run off the left edge moves the axes
+    right. With ``grow`` (a figure of our own) the figure grows by the room
+    needed, so the axes keep their size in inches; on a user's axes only the
+    titles are stacked.
+    """
+    fig = ax.figure
+    ppt = fig.dpi / 72.0
+    extra_top_pt = 0.0
+    left_title, right_title = ax._left_title, ax._right_title
+    if left_title.get_text() and right_title.get_text():
+        a = left_title.get_window_extent(renderer)
+        b = right_title.get_window_extent(renderer)
+        if a.x1 + _TITLE_GAP_PT * ppt > b.x0:
+            right_title.set_horizontalalignment("left")
+            right_title.set_x(0.0)
+            extra_top_pt = b.height / ppt + 3.0
+            base = left_title.get_position()[1] if title_y(ax) is not None else 1.0
+            left_title.set_y(base + extra_top_pt * ppt / max(ax.bbox.height, 1.0))
+    short_pt = 0.0
+    if ax.yaxis.label.get_text():
+        # the axis's tight box places the label beside the tick labels first
+        x0_pt = ax.yaxis.get_tightbbox(renderer).x0 / ppt
+        short_pt = max(_EDGE_PT - x0_pt, 0.0)
+    if not grow or (extra_top_pt == 0.0 and short_pt == 0.0):
+        return
+    w, h = fig.get_size_inches()
+    sp = fig.subplotpars
+    new_w, new_h = w + short_pt / 72.0, h + extra_top_pt / 72.0
+    fig.set_size_inches(new_w, new_h)
+    fig.subplots_adjust(
+        left=(sp.left * w + short_pt / 72.0) / new_w,
+        right=(sp.right * w + short_pt / 72.0) / new_w,
+        bottom=sp.bottom * h / new_h,
+        top=sp.top * h / new_h,
+    )
 
 
 def _state_legend(ax, dmap, pal, offset_pt, *, reading, water, neutral):
