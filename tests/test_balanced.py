@@ -170,7 +170,7 @@ def _disagreement(balanced, ligand_map):
 
 def test_converges_to_the_predominant_ligand_map_when_ligand_is_in_excess():
     # ligand totals 10, 1e3 and 1e5 times the copper: the predominant-ligand map at the same
-    # ligand activity and copper activity disagrees less and less (DESIGN §2.4 limit)
+    # ligand activity and copper activity disagrees less and less (the predominant-ligand limit)
     window = dict(ph_range=(7.0, 13.0), potential_range_v=(-0.6, 0.6))
     shares = []
     for copper in (0.1, 1e-3, 1e-5):

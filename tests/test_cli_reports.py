@@ -15,7 +15,7 @@ from pourbaix.cli.commands import main
 
 K25 = 8.314462618 * 298.15 * math.log(10) / 96485.33212  # R T ln10 / F at 25 °C (CODATA 2018)
 
-# Phrases of the cautions every report carries (common practice for this project's reports; DESIGN §7)
+# Phrases of the cautions every report carries (common practice for this project's reports; README, "Safety and limits")
 CAUTIONS = ("thermodynamic prediction", "local codes", "applicable standards", "licensed practice")
 
 
@@ -234,11 +234,12 @@ def test_compare_report_has_the_boundary_shift_table(tmp_path, capsys):
 
 def test_compare_report_across_temperature_vs_a_moving_electrode(tmp_path, capsys):
     # the SCE drifts with temperature: no overlay can be drawn, but the table and map B's notes are reported
+    # (nickel: its higher oxides keep their 25 °C values, which map B warns about)
     report = tmp_path / "cmp.html"
     code, out, err = run(
         capsys,
         "compare",
-        "Fe",
+        "Ni",
         "--reference",
         "SCE",
         "--against-temperature",

@@ -7,7 +7,7 @@ The malformed fixture files live in tests/data/. Facts used as checks:
 - third-law entropies of pure phases are positive (third law of thermodynamics);
 - the CAS check digit: sum of digits times their position from the right, mod 10
   (CAS Registry Number check-digit rule, Chemical Abstracts Service);
-- H+(aq) has dGf = 0 at every temperature by convention (DESIGN.md 2.6; NBS82).
+- H+(aq) has dGf = 0 at every temperature by convention (NBS82).
 """
 
 import re
@@ -245,7 +245,7 @@ def test_keys_unique(tables):
 
 def test_water_and_proton_present(tables):
     t = tables["default"]
-    assert t.get("H+").dgf_kj_mol == 0.0  # convention (NBS82; DESIGN 2.6)
+    assert t.get("H+").dgf_kj_mol == 0.0  # convention (NBS82)
     assert t.get("H2O", "l").phase == "l"
     assert t.get("H2O(l)") is t.get("H2O", "l")
 

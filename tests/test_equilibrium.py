@@ -5,7 +5,7 @@ assemblages the phase rule allows (at most one solid per component) and, for
 each, maximising the Lagrange dual with scipy.optimize (trust-exact) on the
 affine set where the assemblage's solids are saturated; the lowest feasible
 Gibbs energy wins (Smith & Missen 1982, ch. 2). The energies are formed in this
-file from the table rows (DESIGN §2.1), not by the code under test.
+file from the table rows (Pourbaix 1974, ch. III), not by the code under test.
 """
 
 import itertools
@@ -34,7 +34,7 @@ G_WATER = TABLE.get("H2O", "l").dgf_kj_mol
 def mu_over_rt(system, ph, potential_v):
     """Transformed energy of each species / RT, written from the rows (25 °C, elements at 0).
 
-    Forming s from its elements, H2O, H+ and e- (DESIGN §2.1):
+    Forming s from its elements, H2O, H+ and e- (Pourbaix 1974, ch. III):
     mu'_s = dG_s - o dG_w - (2o - h) RT ln10 pH - (2o - h + z) F E.
     """
     out = []

@@ -166,7 +166,7 @@ def test_exact_map_agrees_with_argmin_reference(element):
     """10^4 random points: the polygon holding each point is the argmin of the planes there.
 
     The argmin of the transformed energies at a point is the definition of
-    stability (DESIGN §2.1); points within 1 mV of a boundary are skipped.
+    stability (Pourbaix 1974, ch. III); points within 1 mV of a boundary are skipped.
     """
     m = compute_map(element, activity=1e-6)
     rng = np.random.default_rng(hash(element) % 2**32)

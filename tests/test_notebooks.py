@@ -12,7 +12,7 @@ pytest.importorskip("ipykernel", reason="ipykernel is in the test extra")
 
 NOTEBOOKS = Path(__file__).resolve().parent.parent / "notebooks"
 
-# Each notebook, and words its cautions must carry (DESIGN §7; issue 6, items 7 and 8).
+# Each notebook, and words its cautions must carry (README, "Safety and limits").
 EXPECTED = {
     "cooling_loop_steel.ipynb": (
         "Passivation on a map is not protection",

@@ -36,7 +36,7 @@ def random_system(rng, k, n_extra, degenerate):
         metals = rng.choice(k, size=rng.integers(1, 3), replace=False)
         c[metals] = rng.integers(1, 4, size=len(metals))
         counts.append(c)
-        # a plane like a species formed from the metal, water, H+ and e- (DESIGN §2.1):
+        # a plane like a species formed from the metal, water, H+ and e- (Pourbaix 1974, ch. III):
         # intercept, pH slope from the protons, E slope from the electrons
         electrons = rng.integers(0, 4)
         protons = rng.integers(0, electrons + 2)

@@ -28,7 +28,7 @@ from pourbaix.report.document import (
     write_report_from_args,
 )
 
-# The cautions every report must carry (issue 6, item 8; DESIGN §7): one phrase per point.
+# The cautions every report must carry (README, "Safety and limits"): one phrase per point.
 CAUTION_PHRASES = (
     "thermodynamic",
     "rates",
@@ -103,8 +103,9 @@ def _parse(text):
 
 @pytest.fixture(scope="module")
 def fe60():
-    # 60 °C gives route warnings (aqueous hydrolysis species past their trusted range)
-    return compute_map("Fe", temperature_c=60.0, reference="SCE")
+    # an ionic strength with dissolved iron set by activity gives a warning (the coefficients do
+    # not apply to an activity), which the report must carry
+    return compute_map("Fe", temperature_c=60.0, reference="SCE", ionic_strength=0.1)
 
 
 @pytest.fixture(scope="module")
@@ -169,7 +170,7 @@ def test_html_carries_every_caution(fe60_html):
 
 def test_html_values_against_published_ones():
     # Water's oxygen line at 25 °C, 1 bar: E = 1.229 - 0.0592 pH V vs SHE (Bard & Faulkner 2001,
-    # and every electrochemistry text; DESIGN §4); the table gives 3 decimals for E0 and 4 for the slope.
+    # and every electrochemistry text); the table gives 3 decimals for E0 and 4 for the slope.
     # Cu2+/Cu: E0 = +0.340 V vs SHE (Bard, Parsons & Jordan 1985); our NBS82 data are quoted to
     # 0.01 kJ/mol, so 5 mV is ample.
     text = html.unescape(render_report(compute_map("Cu"), figure=False))

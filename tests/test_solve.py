@@ -1,7 +1,7 @@
 """Properties of the exact solver: tiling, argmin agreement, boundaries on their lines.
 
 The references here are independent of the production route: a dense grid
-argmin (DESIGN §2.2: the grid is only ever a reference) and the O(N^2)
+argmin (the grid is only ever a reference: DEVELOPERS.md) and the O(N^2)
 clipping construction, checked against each other and against Qhull.
 """
 

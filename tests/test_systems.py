@@ -1,7 +1,7 @@
 """Ligand systems and several metals at a fixed ratio, against published facts and independent solvers.
 
 The independent references here are written from the textbook equations only
-(DESIGN §2.1: each species formed from the elements, water, H+ and electrons),
+(Pourbaix 1974, ch. III: each species formed from the elements, water, H+ and electrons),
 evaluated straight from the table rows: a direct enumeration of the
 predominant-ligand assemblage at a point, and scipy's linear-programming solver
 (HiGHS) for the fixed-ratio assemblage. Neither uses the code under test.
@@ -46,7 +46,7 @@ G_WATER = TABLE.get("H2O", "l").dgf_kj_mol
 def formation_plane(sp, activity):
     """(c0, cph, ce) of forming one formula unit from the elements, H2O, H+ and e- [V].
 
-    x M + ... + o H2O -> sp + (2o - h) H+ + (2o - h + z) e-  (DESIGN §2.1, 25 °C, elements at 0).
+    x M + ... + o H2O -> sp + (2o - h) H+ + (2o - h + z) e-  (Pourbaix 1974, ch. III; 25 °C, elements at 0).
     """
     comp = dict(sp.composition)
     h, o, z = comp.get("H", 0), comp.get("O", 0), sp.charge
@@ -498,7 +498,7 @@ def test_warns_when_the_metal_exceeds_the_ligand():
 def test_ligand_reference_states_cancel_at_temperature():
     """At 60 °C the Cu/Cu2S line in the H2S field equals the Nernst line of
     Cu2S + 2 H+ + 2 e- = 2 Cu + H2S(aq) built from apparent Gibbs energies at T
-    (Benson-Helgeson convention; DESIGN §2.6), whatever sulfur's own G(T) is."""
+    (Benson-Helgeson convention; Helgeson et al. 1978), whatever sulfur's own G(T) is."""
     from pourbaix.physics import thermo
 
     t = 60.0
@@ -516,7 +516,7 @@ def test_ligand_reference_states_cancel_at_temperature():
 
 def test_ratio_map_at_temperature_agrees_with_linprog():
     """Fe:Cr 3:1 at 80 °C: the linear programme over apparent Gibbs energies at T (Benson-Helgeson
-    convention; DESIGN §2.6), every species formed from the metals' own reference states at T."""
+    convention; Helgeson et al. 1978), every species formed from the metals' own reference states at T."""
     from pourbaix.physics import thermo
 
     t = 80.0

@@ -89,9 +89,12 @@ def test_iron_magnetite_field_widens_with_temperature():
 
 
 def test_route_warnings_above_their_range():
-    # Fe2(OH)2^4+ has no S° in the tables and no estimate: it keeps its 25 °C value
+    # every iron species has a route to 250 °C (Fe2(OH)2^4+ by its S° from the BM76 enthalpy)
     m = compute_map("Fe", temperature_c=250.0)
-    assert any("keep their 25 °C ΔG" in w and "Fe2(OH)2^4+" in w for w in m.warnings)
+    assert not any("keep their 25 °C ΔG" in w for w in m.warnings)
+    # the higher nickel oxides have no S° in the tables and no estimate: they keep their 25 °C value
+    m = compute_map("Ni", temperature_c=250.0)
+    assert any("keep their 25 °C ΔG" in w and "NiO2" in w for w in m.warnings)
     assert m.to_dict()["warnings"]
     # solids on a constant Cp (here goethite, Cp by Kopp's rule) are trusted to 350 °C
     m = compute_map("Fe", temperature_c=400.0, pressure_bar=1000.0)
@@ -161,3 +164,28 @@ def test_table_loaded_once_for_a_sweep():
     table = load_species()
     maps = compute_sweep("Fe", temperatures_c=[25.0, 80.0], table=table)
     assert len(maps) == 2
+
+
+def test_iron_dimer_enthalpy_and_entropy_follow_baes_mesmer():
+    # Baes & Mesmer 1976: 2 Fe3+ + 2 H2O = Fe2(OH)2^4+ + 2 H+, log *beta22 = -2.95 and
+    # dH = 56.48 kJ/mol, read from the Thermoddem file shipped by pygcc (reference 76bae/mes).
+    import re
+    from pathlib import Path
+
+    pygcc = pytest.importorskip("pygcc")
+    text = (
+        Path(pygcc.__file__).parent / "default_db" / "PHREEQC_ThermoddemV1.10_15Dec2020.dat"
+    ).read_text(errors="replace")
+    block = text[text.index("2.000Fe+3 + 2.000H2O  = Fe2(OH)2+4 + 2.000H+") :][:400]
+    dh_r = float(re.search(r"delta_h\s+([-\d.]+)\s+#kJ/mol\s+#76bae/mes", block).group(1))
+    assert dh_r == 56.48
+    t = load_species()
+    dimer, fe3, water = t.get("Fe2(OH)2^4+"), t.get("Fe^3+"), t.get("H2O", "l")
+    dg_r = dimer.dgf_kj_mol - 2 * fe3.dgf_kj_mol - 2 * water.dgf_kj_mol
+    assert dg_r == pytest.approx(-8.314462618e-3 * 298.15 * math.log(10) * -2.95, abs=0.01)
+    # dH and S of the row reproduce the reaction's enthalpy and entropy (table gives 2 decimals)
+    assert dimer.dhf_kj_mol - 2 * fe3.dhf_kj_mol - 2 * water.dhf_kj_mol == pytest.approx(
+        dh_r, abs=0.01
+    )
+    ds_r = dimer.s_j_molk - 2 * fe3.s_j_molk - 2 * water.s_j_molk
+    assert ds_r == pytest.approx((dh_r - dg_r) / 298.15 * 1000.0, abs=0.02)

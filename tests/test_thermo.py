@@ -29,7 +29,7 @@ def test_nernst_factor_codata(t):
 
 
 def test_nernst_factor_textbook_25c():
-    # 0.05916 V at 25 °C (Bard & Faulkner 2001; DESIGN.md §2.1), given to 5 decimals
+    # 0.05916 V at 25 °C (Bard & Faulkner 2001), given to 5 decimals
     assert thermo.nernst_factor(25.0) == pytest.approx(0.05916, abs=5e-6)
 
 
@@ -170,7 +170,7 @@ def test_water_bad_pressure(p):
     [
         (-1.0, "outside the supported range"),
         (601.0, "outside the supported range"),
-        # along saturation the range stops at 350 °C (DESIGN 2.9); above, a pressure is needed
+        # along saturation the range stops at 350 °C (Shock et al. 1992: the g-function needs a dense liquid); above, a pressure is needed
         (351.0, "above 350 °C.*give a pressure"),
         (374.0, "above 350 °C.*give a pressure"),
     ],
