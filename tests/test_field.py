@@ -123,7 +123,8 @@ def test_a_time_series_is_one_path_per_site():
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
-    from pourbaix.analyses.field import draw_field, place_readings_at_temperature, series_of
+    from pourbaix.analyses.field import place_readings_at_temperature, series_of
+    from pourbaix.plot.analysis_figures import draw_field
 
     data = read_field_csv(DATA / "two_sites.csv")
     series = series_of(data)

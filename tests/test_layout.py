@@ -78,3 +78,26 @@ def test_no_module_imports_another_modules_private_names():
                 if n.startswith("_") and not n.startswith("__")
             ]
     assert not offenders, "\n".join(offenders)
+
+
+def test_analyses_compute_only():
+    # computing is kept apart from drawing (code layout of the project): no module under
+    # pourbaix/analyses/ imports matplotlib or pourbaix.plot, at module level or in a function
+    offenders = []
+    for path in (PACKAGE / "analyses").rglob("*.py"):
+        tree = ast.parse(path.read_text(encoding="utf-8"))
+        for node in ast.walk(tree):
+            if isinstance(node, ast.ImportFrom):
+                targets = [node.module or ""]
+                if node.module == "pourbaix":
+                    targets += [f"pourbaix.{a.name}" for a in node.names]
+            elif isinstance(node, ast.Import):
+                targets = [a.name for a in node.names]
+            else:
+                continue
+            offenders += [
+                f"{path.relative_to(PACKAGE.parent)}:{node.lineno} imports {t}"
+                for t in targets
+                if t.split(".")[0] == "matplotlib" or t == "pourbaix.plot" or t.startswith("pourbaix.plot.")
+            ]
+    assert not offenders, "\n".join(offenders)

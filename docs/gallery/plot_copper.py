@@ -13,7 +13,7 @@ from sampling, not from a map. A map is a thermodynamic prediction.
 """
 
 import pourbaix
-from pourbaix.analyses.solubility import add_solubility_lines
+from pourbaix.plot.analysis_figures import add_solubility_lines
 from pourbaix.plot.draw import draw_map
 
 copper = pourbaix.compute_map("Cu", activity=1e-6, ph_range=(2, 14), potential_range_v=(-1.0, 1.4))

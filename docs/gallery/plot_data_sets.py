@@ -10,7 +10,8 @@ Before a decision rests on a boundary, check the rows behind it on the data page
 """
 
 import pourbaix
-from pourbaix.analyses.compare import compare_maps, draw_comparison
+from pourbaix.analyses.compare import compare_maps
+from pourbaix.plot.analysis_figures import draw_comparison
 
 base = pourbaix.compute_map("Fe", activity=1e-6, ph_range=(0, 14), potential_range_v=(-1.2, 1.4))
 other = pourbaix.compute_map("Fe", activity=1e-6, dataset="bpj85", ph_range=(0, 14),

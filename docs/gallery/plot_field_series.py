@@ -17,7 +17,8 @@ interference surveys) by qualified personnel. A map is a thermodynamic predictio
 The readings are invented for this example.
 """
 
-from pourbaix.analyses.field import draw_field, field_readings
+from pourbaix.analyses.field import field_readings
+from pourbaix.plot.analysis_figures import draw_field
 
 iron, readings = field_readings("Fe", "data/buried_pipe_survey.csv", activity=1e-6,
                                 reference="Cu/CuSO4", ph_range=(5.5, 9.5),

@@ -11,7 +11,8 @@ toxic gas, and strong acids burn. Leach conditions are set with testwork and und
 the applicable occupational-health rules and licensed practice.
 """
 
-from pourbaix.analyses.windows import draw_window, leach_window
+from pourbaix.analyses.windows import leach_window
+from pourbaix.plot.analysis_figures import draw_window
 
 window = leach_window("Cu", keep_solid="Fe", min_dissolved=1e-2, max_dissolved=1e-5,
                       ligands={"S": 0.1}, ph_range=(-1, 8), potential_range_v=(-0.6, 1.4))

@@ -14,7 +14,8 @@ films on fresh galvanising are kinetic matters the curve cannot predict.
 import numpy as np
 
 import pourbaix
-from pourbaix.analyses.solubility import draw_solubility_curve, solubility_curve, solubility_minimum
+from pourbaix.analyses.solubility import solubility_curve, solubility_minimum
+from pourbaix.plot.analysis_figures import draw_solubility_curve
 
 zinc = pourbaix.compute_map("Zn", activity=1e-6)
 curve = solubility_curve(zinc, np.linspace(4.0, 14.0, 201), along="oxygen")

@@ -2,8 +2,8 @@
 
 Every function here works on :class:`pourbaix.maps.domain_map.DomainMap` objects (or
 computes one from an element and the keyword conditions of
-:func:`pourbaix.maps.domain_map.compute_map`). Drawing helpers import matplotlib
-only when called.
+:func:`pourbaix.maps.domain_map.compute_map`). Computing only: their figures are
+drawn by :mod:`pourbaix.plot.analysis_figures`.
 """
 
 import importlib
@@ -27,13 +27,8 @@ _WHERE = {
     "MapComparison": "compare",
     "SolidOnset": "solubility",
     "SolubilityResult": "solubility",
-    "add_solubility_lines": "solubility",
     "compare_maps": "compare",
     "corrosion_reading": "reading",
-    "draw_comparison": "compare",
-    "draw_field": "field",
-    "draw_solubility_curve": "solubility",
-    "draw_window": "windows",
     "field_readings": "field",
     "immunity_potential": "reading",
     "leach_window": "windows",
@@ -60,13 +55,8 @@ __all__ = [
     "MapComparison",
     "SolidOnset",
     "SolubilityResult",
-    "add_solubility_lines",
     "compare_maps",
     "corrosion_reading",
-    "draw_comparison",
-    "draw_field",
-    "draw_solubility_curve",
-    "draw_window",
     "field_readings",
     "immunity_potential",
     "leach_window",

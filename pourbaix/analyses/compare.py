@@ -11,7 +11,6 @@ __all__ = [
     "BoundaryShift",
     "MapComparison",
     "compare_maps",
-    "draw_comparison",
     "comparison_table_lines",
 ]
 
@@ -262,27 +261,6 @@ def compare_maps(map_a, map_b, *, ph=None, labels=None):
             "apart between the two maps (temperature); the shifts include that"
         )
     return MapComparison(map_a, map_b, la, lb, shifts, only_a, only_b, ca.reference, notes)
-
-
-def draw_comparison(comparison, ax=None):
-    """Overlay the two maps' boundaries (``pourbaix.plot.draw.draw_overlay``).
-
-    Parameters
-    ----------
-    comparison : MapComparison
-        From :func:`compare_maps`.
-    ax : matplotlib.axes.Axes, optional
-        Axes to draw onto; a new figure is made when None.
-
-    Returns
-    -------
-    matplotlib.axes.Axes
-    """
-    from pourbaix.plot import draw
-
-    return draw.draw_overlay(
-        [comparison.map_a, comparison.map_b], ax=ax, labels=[comparison.label_a, comparison.label_b]
-    )
 
 
 def comparison_table_lines(cmp):

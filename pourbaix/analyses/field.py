@@ -18,9 +18,7 @@ __all__ = [
     "read_field_csv",
     "place_readings",
     "field_readings",
-    "draw_field",
     "place_readings_at_temperature",
-    "draw_field_groups",
     "series_of",
     "GROUPINGS",
     "field_table_lines",
@@ -164,7 +162,7 @@ class FieldData:
         pandas.DataFrame
             One row per reading, the columns of :meth:`table`.
         """
-        from pourbaix.plot.notebook import as_frame
+        from pourbaix.frames import as_frame
 
         return as_frame(self.table())
 
@@ -634,130 +632,6 @@ def place_readings_at_temperature(element, data, *, group="temperature", **condi
         subset = replace(data, rows=rows, problems=list(data.problems) if n == 0 else [])
         out.append((dmap, place_readings(dmap, subset)))
     return out
-
-
-def draw_field(dmap, data, ax=None, *, labels=True, reading=False):
-    """Draw the map with the readings on it (one path with arrows per site of a time series).
-
-    Parameters
-    ----------
-    dmap : DomainMap
-        The map.
-    data : FieldData
-        Placed readings (from :func:`place_readings` or :func:`field_readings`).
-    ax : matplotlib.axes.Axes, optional
-        Axes to draw onto; a new figure is made when None.
-    labels : bool
-        Label each site's path once (by its site name) and each single
-        reading by its label (or time, or line number).
-    reading : bool
-        Shade the corrosion reading on the map.
-
-    Returns
-    -------
-    matplotlib.axes.Axes
-    """
-    from pourbaix.plot import draw
-
-    rows = [r for r in data.rows if r.potential_v_map is not None]
-    if len(rows) != len(data.rows):
-        raise OptionError("draw_field: place the readings on the map first (place_readings)")
-    ax = draw.draw_map(dmap, ax=ax, reading=reading)
-    _draw_readings(ax, data, labels)
-    return ax
-
-
-def _draw_readings(ax, data, labels):
-    from pourbaix.plot import draw
-
-    rows = data.rows
-    if not rows:
-        return
-    series = series_of(data)
-    in_series = {k for s in series for k in s}
-    for s in series:
-        # a path per site, labelled once at its last reading
-        name = rows[s[-1]].site or rows[s[-1]].label or "readings"
-        text = [""] * (len(s) - 1) + [name]
-        draw.draw_points(
-            ax,
-            [rows[k].ph for k in s],
-            [rows[k].potential_v_map for k in s],
-            labels=text if labels else None,
-            path=True,
-        )
-    singles = [k for k in range(len(rows)) if k not in in_series]
-    if singles:
-        text = [
-            rows[k].label or rows[k].site or rows[k].time or f"line {rows[k].line}" for k in singles
-        ]
-        draw.draw_points(
-            ax,
-            [rows[k].ph for k in singles],
-            [rows[k].potential_v_map for k in singles],
-            labels=text if labels else None,
-        )
-
-
-def draw_field_groups(groups, *, labels=True, reading=False):
-    """Draw readings placed on the maps of their own temperatures: one panel per map.
-
-    Parameters
-    ----------
-    groups : list of (DomainMap, FieldData)
-        From :func:`place_readings_at_temperature`.
-    labels, reading : bool
-        As for :func:`draw_field`.
-
-    Returns
-    -------
-    matplotlib.figure.Figure or matplotlib.axes.Axes
-        The Axes for one map, else the figure with one panel per map.
-    """
-    from pourbaix.plot import draw
-    from pourbaix.plot.style import FIGURE_SIZE_IN, load_pyplot
-
-    if len(groups) == 1:
-        return draw_field(*groups[0], labels=labels, reading=reading)
-    plt = load_pyplot()
-    ncol = 2
-    nrow = math.ceil(len(groups) / ncol)
-    w, h = FIGURE_SIZE_IN
-    fig, axes = plt.subplots(nrow, ncol, figsize=(w * ncol, (h + 0.6) * nrow), squeeze=False)
-    fig.subplots_adjust(left=0.06, right=0.97, top=0.95, bottom=0.11, hspace=0.62, wspace=0.22)
-    # every site's whole series, faint on each panel, so a site reads as one path across the maps
-    everything = replace(groups[0][1], rows=[r for _, d in groups for r in d.rows])
-    order = sorted(range(len(everything.rows)), key=lambda k: everything.rows[k].line)
-    everything = replace(everything, rows=[everything.rows[k] for k in order])
-    for ax, (dmap, data) in zip(axes.ravel(), groups, strict=False):
-        draw.draw_map(dmap, ax=ax, reading=reading, caption=False)
-        for s in series_of(everything):
-            ax.plot(
-                [everything.rows[k].ph for k in s],
-                [everything.rows[k].potential_v_map for k in s],
-                color="#8a8a8a",
-                lw=0.9,
-                ls=(0, (3, 2)),
-                marker="D",
-                ms=3.0,
-                mfc="#d9d9d9",
-                mec="#8a8a8a",
-                zorder=9,
-                gid="pourbaix-series-context",
-            )
-        _draw_readings(ax, data, labels)
-    for ax in axes.ravel()[len(groups) :]:
-        ax.set_visible(False)
-    temps = ", ".join(f"{d.conditions.temperature_c:g}" for d, _ in groups)
-    fig.text(
-        0.06,
-        0.015,
-        f"Each reading is placed on the map at its own temperature ({temps} °C); grey dashed: "
-        "each site's whole series. A map is a thermodynamic prediction.",
-        fontsize=8,
-        color="#3a3a3a",
-    )
-    return fig
 
 
 def _fmt(v, unit):

@@ -30,7 +30,6 @@ import numpy as np
 
 from pourbaix.errors import ConditionsError, OptionError
 from pourbaix.solve.envelope import clip_halfplane
-from pourbaix.tables.formula import TO_SUPERSCRIPT
 
 __all__ = [
     "DEFAULT_LEVELS",
@@ -43,8 +42,10 @@ __all__ = [
     "missing_solid_note",
     "solubility_region",
     "solubility_lines",
-    "add_solubility_lines",
-    "draw_solubility_curve", "polygon_parts", "check_basis", "check_level",]
+    "polygon_parts",
+    "check_basis",
+    "check_level",
+]
 
 #: Iso-solubility levels drawn by default [mol/kg].
 DEFAULT_LEVELS = (1e-2, 1e-4, 1e-6, 1e-8)
@@ -1149,168 +1150,6 @@ def solubility_lines(dmap, levels=DEFAULT_LEVELS, *, basis="total", tolerance=DE
         parts = list(merged.geoms) if hasattr(merged, "geoms") else [merged]
         out[level] = [np.asarray(g.coords) for g in parts]
     return out
-
-
-def _level_text(v):
-    e = math.log10(v)
-    if abs(e - round(e)) < 1e-9:
-        return "10" + str(int(round(e))).translate(TO_SUPERSCRIPT)
-    return f"{v:.2g}"
-
-
-def add_solubility_lines(
-    ax, dmap, levels=DEFAULT_LEVELS, *, basis="total", labels=True, colour="#5a2d82", **style
-):
-    """Draw iso-solubility lines on a map's Axes.
-
-    Parameters
-    ----------
-    ax : matplotlib.axes.Axes
-        Axes of a map of ``dmap`` (e.g. from ``pourbaix.plot.draw.draw_map``).
-    dmap : DomainMap
-        The single-element map drawn there.
-    levels : sequence of float
-        Solubility levels [mol/kg].
-    basis : {"total", "species"}
-        As for :func:`solubility_region`.
-    labels : bool
-        Write each level beside its longest line.
-    colour : str
-        Line colour.
-    **style
-        Passed to ``Axes.plot`` (e.g. ``lw``, ``ls``).
-
-    Returns
-    -------
-    matplotlib.axes.Axes
-    """
-    lines = solubility_lines(dmap, levels, basis=basis)
-    kw = dict(color=colour, lw=0.9, ls=(0, (6, 2, 1.5, 2)), zorder=4.2, gid="pourbaix-solubility")
-    kw.update(style)
-    x0, x1, y0, y1 = dmap.window
-    scale = np.array([x1 - x0, y1 - y0])
-    n = len(lines)
-    for j, (level, parts) in enumerate(lines.items()):
-        for pts in parts:
-            ax.plot(pts[:, 0], pts[:, 1], **kw)
-        if labels and parts:
-            # staggered along the longest line (a quarter to three quarters of its length) so that
-            # the labels of neighbouring levels do not sit on top of each other
-            longest = max(
-                parts, key=lambda a: float(np.sum(np.hypot(*(np.diff(a, axis=0) / scale).T)))
-            )
-            seg = np.hypot(*(np.diff(longest, axis=0) / scale).T)
-            s_at = np.concatenate([[0.0], np.cumsum(seg)])
-            frac = 0.5 if n == 1 else 0.25 + 0.5 * j / (n - 1)
-            p = np.array([np.interp(frac * s_at[-1], s_at, longest[:, k]) for k in (0, 1)])
-            t = ax.text(
-                p[0],
-                p[1],
-                _level_text(level),
-                fontsize=7,
-                color=colour,
-                ha="center",
-                va="center",
-                zorder=4.3,
-                gid=f"pourbaix-label:solubility:{level:g}",
-            )
-            t.set_bbox(
-                dict(boxstyle="round,pad=0.1", facecolor="white", edgecolor="none", alpha=0.8)
-            )
-    return ax
-
-
-def draw_solubility_curve(result, ax=None, *, label=None, title=None):
-    """Plot log10 total solubility against pH.
-
-    Parameters
-    ----------
-    result : SolubilityResult
-        From :func:`solubility_curve` (one-dimensional).
-    ax : matplotlib.axes.Axes, optional
-        Axes to draw onto; a new figure is made when None.
-    label : str, optional
-        Legend text for the curve.
-    title : str, optional
-        Title; default names the element and the potential.
-
-    Returns
-    -------
-    matplotlib.axes.Axes
-    """
-    if ax is None:
-        from matplotlib.figure import Figure
-
-        fig = Figure(figsize=(7.0, 4.6))
-        ax = fig.add_subplot()
-        fig.subplots_adjust(left=0.11, right=0.97, top=0.9, bottom=0.13)
-    x = np.ravel(result.ph)
-    y = np.ravel(result.log10_total)
-    ax.plot(
-        x, y, color="#1f3b5c", lw=1.6, label=label or f"total dissolved {result.element}", zorder=3
-    )
-    lo = float(np.nanmin(y))
-    top = (
-        min(float(np.nanmax(y)), 1.0) + 0.5
-    )  # above ~1 mol/kg no solid forms: the axis stops there
-    bottom = max(lo - 1.5, -16.0)
-    spm = np.asarray(result.species_molality).reshape(len(x), -1)
-    dom = np.ravel(np.asarray(result.dominant, dtype=object))
-    labels = result.species_labels or result.species
-    for j, name in enumerate(result.species):
-        with np.errstate(divide="ignore"):
-            ly = np.log10(spm[:, j])
-        if not np.any(ly > bottom):
-            continue
-        ax.plot(x, ly, lw=0.7, ls=(0, (3, 2)), color="#7a7a7a", zorder=2)
-        # label where this species carries most of the element (else where it comes closest to the
-        # total), within the drawn range
-        visible = (ly > bottom) & (ly < top)
-        where = np.flatnonzero((dom == name) & visible)
-        if not where.size and np.any(visible):
-            gap = np.where(visible, y - ly, np.inf)
-            where = np.array([int(np.argmin(gap))]) if np.min(gap) < 1.5 else where
-        if where.size:
-            k = int(where[len(where) // 2])
-            ax.annotate(
-                labels[j],
-                (x[k], ly[k]),
-                xytext=(0, -11),
-                textcoords="offset points",
-                fontsize=7.5,
-                color="#444444",
-                ha="center",
-                va="top",
-            )
-    k = int(np.nanargmin(y))
-    ax.plot([x[k]], [y[k]], marker="o", ms=4.5, color="#1f3b5c", zorder=4)
-    ax.annotate(
-        f"lowest: pH {x[k]:.2f}, {10 ** y[k]:.2g} mol/kg",
-        (x[k], y[k]),
-        xytext=(0, 9),
-        textcoords="offset points",
-        fontsize=8,
-        color="#1f3b5c",
-        ha="center",
-        va="bottom",
-    )
-    ax.set_ylim(bottom, top)
-    ax.set_xlim(float(x.min()), float(x.max()))
-    ax.set_xlabel("pH")
-    ax.set_ylabel(f"log₁₀ dissolved {result.element} [mol/kg]")
-    ax.grid(True, lw=0.4, color="#dddddd")
-    if title is None:
-        e = np.ravel(result.potential_v)
-        where = (
-            f"E = {e[0]:+.3f} V vs {result.reference}"
-            if np.allclose(e, e[0])
-            else f"along a line, vs {result.reference}"
-        )
-        title = f"Solubility of {result.element} ({where})"
-    if title:
-        ax.set_title(title, loc="left", fontsize=11)
-    ax.legend(loc="upper right", fontsize=8, frameon=False)
-    return ax
 
 
 # old private names, kept one release for code not yet moved to the public ones

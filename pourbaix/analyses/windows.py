@@ -20,7 +20,6 @@ from pourbaix.errors import ConditionsError, OptionError
 __all__ = [
     "LeachWindow",
     "leach_window",
-    "draw_window",
     "describe_window",
 ]
 
@@ -181,9 +180,6 @@ class LeachWindow:
             "notes": list(self.notes),
         }
 
-
-_TARGET_COLOUR = "#8a2b0d"
-_KEEP_COLOUR = "#1d4f2a"
 
 _NOTE_METHOD = (
     "window = {target: dissolved >= level} ∩ {each kept element: dissolved <= its level}, each the exact "
@@ -506,154 +502,6 @@ def leach_window(
         reference=tmap.conditions.reference,
         notes=notes,
     )
-
-
-def _add_geometry(ax, geom, **kw):
-    """Fill a shapely (Multi)Polygon on matplotlib Axes, holes included."""
-    from matplotlib.patches import PathPatch
-    from matplotlib.path import Path
-
-    from pourbaix.analyses.solubility import polygon_parts
-
-    for part in polygon_parts(geom):
-        verts, codes = [], []
-        for ring in (part.exterior, *part.interiors):
-            pts = np.asarray(ring.coords)
-            verts += pts.tolist()
-            codes += [Path.MOVETO] + [Path.LINETO] * (len(pts) - 2) + [Path.CLOSEPOLY]
-        ax.add_patch(PathPatch(Path(verts, codes), **kw))
-    return ax
-
-
-def draw_window(window, ax=None, *, lines=True):
-    """Draw a window over the target element's map.
-
-    Parameters
-    ----------
-    window : LeachWindow
-        From :func:`leach_window`.
-    ax : matplotlib.axes.Axes, optional
-        Axes to draw onto; a new figure is made when None.
-    lines : bool
-        Add the iso-solubility lines of the target at its level and of each
-        kept element at its level.
-
-    Returns
-    -------
-    matplotlib.axes.Axes
-    """
-    from matplotlib.lines import Line2D
-    from matplotlib.patches import Patch
-
-    from pourbaix.analyses.solubility import add_solubility_lines
-    from pourbaix.plot import draw
-
-    tmap = window.maps[window.dissolve]
-    keep = ", ".join(f"{el} ≤ {window.max_dissolved[el]:g}" for el in window.keep_solid)
-    if window.empty:
-        title = (
-            f"No {window.dissolve} window ({window.dissolve} ≥ {window.min_dissolved:g}"
-            + (f"; {keep}" if keep else "")
-            + " mol/kg)"
-        )
-    else:
-        title = (
-            f"{window.dissolve} window: {window.dissolve} ≥ {window.min_dissolved:g}"
-            + (f"; {keep}" if keep else "")
-            + " mol/kg"
-        )
-    ax = draw.draw_map(tmap, ax=ax, title=title)
-    handles, names = [], []
-    line_style = (0, (6, 2, 1.5, 2))
-    basis = "total" if window.basis == "total" else "each species"
-    if lines:
-        add_solubility_lines(
-            ax,
-            tmap,
-            [window.min_dissolved],
-            basis=window.basis,
-            colour=_TARGET_COLOUR,
-            labels=False,
-        )
-        handles.append(Line2D([], [], color=_TARGET_COLOUR, lw=0.9, ls=line_style))
-        names.append(f"{window.dissolve} dissolved ({basis}) = {window.min_dissolved:g}")
-        for el in window.keep_solid:
-            add_solubility_lines(
-                ax,
-                window.maps[el],
-                [window.max_dissolved[el]],
-                basis=window.basis,
-                colour=_KEEP_COLOUR,
-                labels=False,
-            )
-        if window.keep_solid:
-            handles.append(Line2D([], [], color=_KEEP_COLOUR, lw=0.9, ls=line_style))
-            names.append(
-                ", ".join(
-                    f"{el} dissolved ({basis}) = {window.max_dissolved[el]:g}"
-                    for el in window.keep_solid
-                )
-            )
-    if not window.empty:
-        _add_geometry(
-            ax,
-            window.region,
-            facecolor="none",
-            edgecolor=_TARGET_COLOUR,
-            hatch="////",
-            lw=1.6,
-            zorder=5,
-            gid="pourbaix-window",
-        )
-        bx, by = window.best_point
-        ax.plot(
-            [bx],
-            [by],
-            marker="*",
-            ms=11,
-            mfc=_TARGET_COLOUR,
-            mec="white",
-            mew=0.8,
-            ls="none",
-            zorder=6,
-            gid="pourbaix-window-best",
-        )
-        handles = [
-            Patch(facecolor="none", edgecolor=_TARGET_COLOUR, hatch="////"),
-            Line2D([], [], marker="*", ms=9, mfc=_TARGET_COLOUR, mec="white", ls="none"),
-            *handles,
-        ]
-        names = ["window", f"most room: pH {bx:.2f}, {by:+.3f} V", *names]
-    else:
-        from pourbaix.plot.style import typeset_formulas
-
-        ax.text(
-            0.5,
-            0.5,
-            "no window:\n" + "\n".join(typeset_formulas(r) for r in window.reasons),
-            transform=ax.transAxes,
-            ha="center",
-            va="center",
-            fontsize=8,
-            color=_TARGET_COLOUR,
-            zorder=7,
-            wrap=True,
-            bbox=dict(
-                boxstyle="round,pad=0.3", facecolor="white", edgecolor=_TARGET_COLOUR, alpha=0.9
-            ),
-            gid="pourbaix-window-text",
-        )
-    if handles:
-        ax.legend(
-            handles,
-            names,
-            loc="lower left",
-            fontsize=7,
-            framealpha=0.92,
-            borderpad=0.4,
-            handlelength=2.4,
-        ).set_zorder(8)
-    return ax
 
 
 def _fmt_bounds(b, unit):

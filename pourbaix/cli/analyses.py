@@ -171,14 +171,9 @@ def _cmd_solubility(a, map_kwargs):
     import numpy as np
 
     from pourbaix.analyses.limits import REAL_SOLUTION_LIMIT_MOL_KG, beyond_real_solution
-    from pourbaix.analyses.solubility import (
-        DEFAULT_LEVELS,
-        add_solubility_lines,
-        draw_solubility_curve,
-        solubility_curve,
-        solubility_minimum,
-    )
+    from pourbaix.analyses.solubility import DEFAULT_LEVELS, solubility_curve, solubility_minimum
     from pourbaix.maps.domain_map import compute_map
+    from pourbaix.plot.analysis_figures import add_solubility_lines, draw_solubility_curve
 
     element = _one_element(a, "solubility")
     if (a.potential is None) == (a.along is None):
@@ -327,7 +322,8 @@ def _cmd_solubility(a, map_kwargs):
 
 # ------------------------------------------------------------------ window
 def _cmd_window(a, map_kwargs):
-    from pourbaix.analyses.windows import describe_window, draw_window, leach_window
+    from pourbaix.analyses.windows import describe_window, leach_window
+    from pourbaix.plot.analysis_figures import draw_window
 
     target = _one_element(a, "window")
     outs = _outputs(a.out, (*_FIGURES, ".json"))
@@ -365,11 +361,11 @@ def _cmd_field(a, map_kwargs):
     from dataclasses import replace
 
     from pourbaix.analyses.field import (
-        draw_field_groups,
         field_table_lines,
         place_readings_at_temperature,
         read_field_csv,
     )
+    from pourbaix.plot.analysis_figures import draw_field_groups
 
     outs = _outputs(a.out, (*_FIGURES, ".json", ".csv", ".html"))
     _report_target(a)
@@ -535,8 +531,9 @@ def _cmd_reading(a, map_kwargs):
 
 # ------------------------------------------------------------------ compare
 def _cmd_compare(a, map_kwargs):
-    from pourbaix.analyses.compare import compare_maps, comparison_table_lines, draw_comparison
+    from pourbaix.analyses.compare import compare_maps, comparison_table_lines
     from pourbaix.maps.domain_map import compute_map
+    from pourbaix.plot.analysis_figures import draw_comparison
     from pourbaix.tables.species import load_species
 
     outs = _outputs(a.out, (*_FIGURES, ".json", ".csv"))

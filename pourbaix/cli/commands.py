@@ -337,7 +337,8 @@ def cmd_map(a):
 
             draw_bands(ax, _uncertain(a))
         if a.solubility_lines is not None:
-            from pourbaix.analyses.solubility import DEFAULT_LEVELS, add_solubility_lines
+            from pourbaix.analyses.solubility import DEFAULT_LEVELS
+            from pourbaix.plot.analysis_figures import add_solubility_lines
 
             add_solubility_lines(ax, dmap, a.solubility_lines or DEFAULT_LEVELS)
         for o in figure_outs:

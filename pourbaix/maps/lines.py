@@ -30,7 +30,7 @@ def boundary_equations_frame(dmap):
     pandas.DataFrame
         One row per boundary.
     """
-    from pourbaix.plot.notebook import as_frame
+    from pourbaix.frames import as_frame
 
     return as_frame(boundary_equations(dmap))
 

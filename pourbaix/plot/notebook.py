@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import io
 
-from pourbaix.errors import OptionError
+from pourbaix.frames import as_frame
 
-__all__ = ["map_png", "as_frame"]
+__all__ = ["map_png", "as_frame"]  # as_frame lives in pourbaix.frames
 
 #: Resolution of the figure a notebook shows [dots per inch].
 NOTEBOOK_DPI = 110
@@ -44,35 +44,3 @@ def map_png(dmap, dpi=NOTEBOOK_DPI):
     finally:
         plt.close(ax.figure)  # shown once, as the map's image, not again as an open figure
     return buffer.getvalue()
-
-
-def as_frame(rows):
-    """A table (list of dicts, one per row) as a pandas DataFrame.
-
-    Parameters
-    ----------
-    rows : list of dict
-        Rows with the same keys.
-
-    Returns
-    -------
-    pandas.DataFrame
-
-    Raises
-    ------
-    OptionError
-        When pandas is not installed (it is an optional extra: ``pip install "pourbaix[scale]"``).
-
-    Examples
-    --------
-    >>> as_frame([{"ph": 7.0, "state": "corrosion"}]).shape
-    (1, 2)
-    """
-    try:
-        import pandas as pd
-    except ImportError:
-        raise OptionError(
-            "tables as DataFrames need pandas, an optional extra: pip install pandas "
-            '(or pip install "pourbaix[scale]")'
-        ) from None
-    return pd.DataFrame(list(rows))

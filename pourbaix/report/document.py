@@ -572,7 +572,7 @@ def _other_warnings(maps, dmap):
 
 
 def _window_sections(w, dmap):
-    from pourbaix.analyses.windows import draw_window
+    from pourbaix.plot.analysis_figures import draw_window
 
     ref = w.reference
     d = w.to_dict()
@@ -660,7 +660,7 @@ def _signed(v, fmt):
 
 
 def _field_sections(data, dmap):
-    from pourbaix.analyses.field import draw_field
+    from pourbaix.plot.analysis_figures import draw_field
 
     ref = data.reference or (dmap.conditions.reference if dmap is not None else "")
     names = _names(dmap) if dmap is not None else {}
@@ -776,7 +776,7 @@ def _reading_sections(r, dmap):
 
 
 def _solubility_sections(res, dmap):
-    from pourbaix.analyses.solubility import draw_solubility_curve
+    from pourbaix.plot.analysis_figures import draw_solubility_curve
 
     names = _names(dmap) if dmap is not None else {}
     ref = res.reference
@@ -818,7 +818,7 @@ def _solubility_sections(res, dmap):
 
 
 def _comparison_sections(cmp, dmap):
-    from pourbaix.analyses.compare import draw_comparison
+    from pourbaix.plot.analysis_figures import draw_comparison
 
     names = {**_names(cmp.map_b), **_names(cmp.map_a)}
 

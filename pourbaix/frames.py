@@ -1,0 +1,39 @@
+"""Tables (lists of dicts) as pandas DataFrames; pandas is an optional extra imported only here, when used."""
+
+from __future__ import annotations
+
+from pourbaix.errors import OptionError
+
+__all__ = ["as_frame"]
+
+
+def as_frame(rows):
+    """A table (list of dicts, one per row) as a pandas DataFrame.
+
+    Parameters
+    ----------
+    rows : list of dict
+        Rows with the same keys.
+
+    Returns
+    -------
+    pandas.DataFrame
+
+    Raises
+    ------
+    OptionError
+        When pandas is not installed (it is an optional extra: ``pip install "pourbaix[scale]"``).
+
+    Examples
+    --------
+    >>> as_frame([{"ph": 7.0, "state": "corrosion"}]).shape
+    (1, 2)
+    """
+    try:
+        import pandas as pd
+    except ImportError:
+        raise OptionError(
+            "tables as DataFrames need pandas, an optional extra: pip install pandas "
+            '(or pip install "pourbaix[scale]")'
+        ) from None
+    return pd.DataFrame(list(rows))
