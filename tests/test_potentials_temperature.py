@@ -10,6 +10,9 @@ Outside values:
 - E°(AgCl/Ag) from 0 to 95 °C of Bates & Bower (1954), J. Res. Natl. Bur.
   Stand. 53, 283 (the polynomial coded in pourbaix.physics.electrodes, whose
   own test checks it against the paper's table);
+- E°(O2/H2O) at 150-300 °C from CODATA key values (Cox, Wagman & Medvedev
+  1989; from memory), IAPWS-95 for liquid water and the TRC ideal-gas Cp of
+  H2 and O2 shipped by `chemicals`;
 - pygcc's SUPCRT92 route and speq21.dat data (Helgeson et al. 1978 minerals;
   Shock et al. 1997 Fe2+) for the iron–water lines at 300 °C.
 """
@@ -93,6 +96,54 @@ def test_agcl_against_bates_bower_at_95c(table):
     # Bates & Bower's cell data carry about 0.1 mV; the tables' S° and the estimated
     # HKF route for Cl- carry a few mV at 95 °C
     assert shift == pytest.approx(expected, abs=0.004)
+
+
+def _oxygen_couple_reference(temperature_c, pressure_bar):
+    """E° of O2(g) + 4 H+ + 4 e- = 2 H2O(l) at T from outside data only [V vs SHE].
+
+    2 H2(g) + O2(g) = 2 H2O(l) carried from 25 °C with ΔrH(T) = ΔrH° + Σ ΔH and
+    ΔrS(T) = ΔrS° + Σ ΔS: CODATA key values (Cox, Wagman & Medvedev 1989, CODATA Key
+    Values for Thermodynamics; from memory): ΔfH°(H2O, l) -285.830 kJ/mol, S° of H2O(l)
+    69.95, H2(g) 130.680, O2(g) 205.152 J/(mol K); the liquid's H and S changes to
+    (T, P) from IAPWS-95 (the `iapws` package); the ideal-gas Cp of H2 and O2 from the
+    TRC correlations shipped by `chemicals` (TRC_gas_data), integrated numerically.
+    In the SHE convention H+ + e- = ½ H2 has ΔG = 0 at every T, so E° = -ΔrG/(4F).
+    """
+    from chemicals.heat_capacity import TRC_gas_data, TRCCp
+    from iapws import IAPWS95
+    from scipy.integrate import quad
+
+    t = temperature_c + 273.15
+
+    def gas(cas):
+        row = TRC_gas_data.loc[cas]
+        coefficients = [row[f"a{i}"] for i in range(8)]
+        dh = quad(lambda x: TRCCp(x, *coefficients), 298.15, t)[0] / 1000.0
+        ds = quad(lambda x: TRCCp(x, *coefficients) / x, 298.15, t)[0]
+        return dh, ds
+
+    molar_mass = 18.015268e-3  # kg/mol (IAPWS-95)
+    water_ref, water = IAPWS95(T=298.15, P=0.1), IAPWS95(T=t, P=pressure_bar / 10.0)
+    dh_w = (water.h - water_ref.h) * molar_mass  # kJ/mol
+    ds_w = (water.s - water_ref.s) * molar_mass * 1000.0  # J/(mol K)
+    dh_h2, ds_h2 = gas("1333-74-0")
+    dh_o2, ds_o2 = gas("7782-44-7")
+    dh = 2 * (-285.830 + dh_w) - 2 * dh_h2 - dh_o2
+    ds = 2 * (69.95 + ds_w) - 2 * (130.680 + ds_h2) - (205.152 + ds_o2)
+    return -(dh - t * ds / 1000.0) / (4 * F_KJ)
+
+
+@pytest.mark.parametrize("temperature_c", [150.0, 200.0, 250.0, 300.0])
+def test_oxygen_couple_at_150_to_300c_against_codata_iapws_trc(table, temperature_c):
+    from pourbaix.physics.thermo import water_properties
+
+    pressure = water_properties(temperature_c).pressure_bar  # saturation, the map's default
+    ours = _e0(table, temperature_c, [("O2", "g", 1)], [("H2O", "l", 2)], 4)
+    expected = _oxygen_couple_reference(temperature_c, pressure)
+    # CODATA's ±0.040 kJ/mol on ΔfH°(H2O, l) is ±0.2 mV here; the tables' NBS82 25 °C
+    # values differ from CODATA's by 0.06 mV; the TRC Cp fits hold to about 0.1 %.
+    # Dropping the heat capacities (constant ΔrS) would move E° by 16 mV at 300 °C.
+    assert ours == pytest.approx(expected, abs=0.0005)
 
 
 # ------------------------------------------------------------------ iron in water at 300 °C
