@@ -36,6 +36,7 @@ __all__ = [
     "entropy_estimates",
     "species_gibbs_at",
     "oxide_sum_entropy",
+    "oxide_additivity_entropy",
     "make_context",
     "context_for",
     "reference_species",
@@ -158,7 +159,9 @@ def entropy_estimates(table):
         aqueous hydroxide complexes from the cation M^z+ of the same tables by the correlations
         of Shock et al. (1997) (:func:`pourbaix.physics.hkf.estimate_hydroxo_entropy`);
         solid hydroxides and oxyhydroxides as the sum of a tabulated oxide of
-        the same oxidation state and water (:func:`oxide_sum_entropy`).
+        the same oxidation state and water (:func:`oxide_sum_entropy`); other
+        anhydrous solid oxides from a measured oxide of the same metal
+        (:func:`oxide_additivity_entropy`).
     """
     cached = _ESTIMATES.get(id(table))
     if cached is not None and cached[0] is table:
@@ -203,6 +206,10 @@ def _entropy_estimates(table):
             s = oxide_sum_entropy(sp, table)
             if s is not None:
                 found[sp.key] = (s, "S° by oxide sum")
+                continue
+            estimate = oxide_additivity_entropy(sp, table)
+            if estimate is not None:
+                found[sp.key] = (estimate[0], f"S° estimated from {estimate[1]} by additivity")
     return found
 
 
@@ -256,6 +263,52 @@ def oxide_sum_entropy(species, table):
         if best is None or (best[0] and not other.metastable):
             best = (other.metastable, s)
     return None if best is None else best[1]
+
+
+def oxide_additivity_entropy(species, table):
+    """S° of an anhydrous solid oxide from a measured oxide of the same metal.
+
+    Parameters
+    ----------
+    species : Species
+        A solid M_a O_o (no H, no charge) without S°.
+    table : SpeciesTable
+        Species tables.
+
+    Returns
+    -------
+    tuple or None
+        ``(S° [J/(mol K)], name of the oxide used)``, or None when the tables
+        hold no other oxide of that metal with S°.
+
+    Notes
+    -----
+    Latimer's additive contributions (Latimer 1951, J. Am. Chem. Soc. 73, 1480):
+    the S° of a solid is the sum of a contribution per cation, fixed for the
+    element, and one per anion. Taking the metal's contribution from a measured
+    oxide M_a' O_o' and the change of the O²⁻ contribution with the oxidation
+    state as zero gives S° = (a/a') S°(M_a' O_o'). Over the 28 pairs of measured
+    oxides of one metal in the tables (NBS82/CRC values) this is unbiased (mean
+    -0.5 %) with 25 % r.m.s. scatter; the worst, Co3O4 from CoO, is 55 % high.
+    The oxide used is the one nearest in O/M, stable before metastable.
+    """
+    comp = dict(species.composition)
+    metals = [e for e in comp if e != "O"]
+    if species.charge != 0 or "O" not in comp or len(metals) != 1 or "H" in comp:
+        return None
+    metal = metals[0]
+    ratio = comp["O"] / comp[metal]
+    best = None
+    for other in table.species:
+        if other.phase != "s" or other.s_j_molk is None or other is species:
+            continue
+        oc = dict(other.composition)
+        if set(oc) != {metal, "O"}:
+            continue
+        rank = (abs(oc["O"] / oc[metal] - ratio), bool(other.metastable))
+        if best is None or rank < best[0]:
+            best = (rank, comp[metal] / oc[metal] * other.s_j_molk, other.name)
+    return None if best is None else (best[1], best[2])
 
 
 def species_gibbs_at(sp, ctx):
