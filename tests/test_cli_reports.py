@@ -234,12 +234,12 @@ def test_compare_report_has_the_boundary_shift_table(tmp_path, capsys):
 
 def test_compare_report_across_temperature_vs_a_moving_electrode(tmp_path, capsys):
     # the SCE drifts with temperature: no overlay can be drawn, but the table and map B's notes are reported
-    # (nickel: its higher oxides keep their 25 °C values, which map B warns about)
+    # (cerium: its oxides and ions keep their 25 °C values, which map B warns about)
     report = tmp_path / "cmp.html"
     code, out, err = run(
         capsys,
         "compare",
-        "Ni",
+        "Ce",
         "--reference",
         "SCE",
         "--against-temperature",

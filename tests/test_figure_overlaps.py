@@ -138,7 +138,11 @@ def test_nothing_overlaps_on_crowded_maps(name, reading):
 
 
 def test_caption_wraps_within_the_figure_and_typesets_formulas():
-    dmap = CROWDED["Ni-150C-brine"]()
+    # cerium at 150 °C in brine: the cerium oxides and ions have no route to temperature
+    # (no S°, no estimate), so the caption names species in a warning
+    dmap = pourbaix.compute_map(
+        "Ce", temperature_c=150, ionic_strength=0.5, activity_model="davies"
+    )
     assert dmap.warnings, "this map is expected to carry warnings (routes and model limits at 150 °C)"
     ax = draw.draw_map(dmap)
     cap = next(t for t in ax.texts if t.get_gid() == "pourbaix-caption")
@@ -146,4 +150,4 @@ def test_caption_wraps_within_the_figure_and_typesets_formulas():
     assert len(text.splitlines()) >= 4
     # formulas in the warnings are typeset like the labels (Ni₃O₄, not Ni3O4)
     assert "^" not in text
-    assert "Ni₃O₄" in text or "Ni₂O₃" in text or "NiO₂" in text
+    assert "Ce₂O₃" in text or "CeO₂" in text

@@ -92,9 +92,14 @@ def test_route_warnings_above_their_range():
     # every iron species has a route to 250 °C (Fe2(OH)2^4+ by its S° from the BM76 enthalpy)
     m = compute_map("Fe", temperature_c=250.0)
     assert not any("keep their 25 °C ΔG" in w for w in m.warnings)
-    # the higher nickel oxides have no S° in the tables and no estimate: they keep their 25 °C value
+    # the higher nickel oxides have no S° in the tables: they take an estimated S° (from NiO)
     m = compute_map("Ni", temperature_c=250.0)
-    assert any("keep their 25 °C ΔG" in w and "NiO2" in w for w in m.warnings)
+    assert not any("keep their 25 °C ΔG" in w for w in m.warnings)
+    routes = {se.species.name: se.route for se in m.species}
+    assert all("estimated" in routes[n] for n in ("Ni3O4", "Ni2O3", "NiO2"))
+    # the cerium oxides and ions have no S° and no estimate: they keep their 25 °C value
+    m = compute_map("Ce", temperature_c=250.0)
+    assert any("keep their 25 °C ΔG" in w and "CeO2" in w for w in m.warnings)
     assert m.to_dict()["warnings"]
     # solids on a constant Cp (here goethite, Cp by Kopp's rule) are trusted to 350 °C
     m = compute_map("Fe", temperature_c=400.0, pressure_bar=1000.0)
