@@ -6,10 +6,11 @@ import argparse
 import csv
 import io
 import json
-import math
 import sys
 from pathlib import Path
 
+from pourbaix.cli.types import finite_number as _number
+from pourbaix.cli.types import positive_number as _positive
 from pourbaix.errors import DataFileError, OptionError
 
 __all__ = ["register"]
@@ -28,21 +29,6 @@ _MAX_TABLE_ROWS = 10_000
 
 
 # ------------------------------------------------------------------ argument types
-def _number(text):
-    try:
-        v = float(text)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"not a number: {text!r}") from None
-    if not math.isfinite(v):
-        raise argparse.ArgumentTypeError(f"must be finite, got {text!r}")
-    return v
-
-
-def _positive(text):
-    v = _number(text)
-    if v <= 0:
-        raise argparse.ArgumentTypeError(f"must be a positive number, got {text!r}")
-    return v
 
 
 def _outputs(paths, allowed, option="--out"):

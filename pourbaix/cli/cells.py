@@ -10,6 +10,8 @@ import math
 import sys
 from pathlib import Path
 
+from pourbaix.cli.types import finite_number as _number
+from pourbaix.cli.types import positive_number as _positive
 from pourbaix.errors import ConditionsError, OptionError
 
 __all__ = ["register"]
@@ -23,21 +25,6 @@ _CAUTION = (
 
 
 # ------------------------------------------------------------------ argument types
-def _number(text):
-    try:
-        v = float(text)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"not a number: {text!r}") from None
-    if not math.isfinite(v):
-        raise argparse.ArgumentTypeError(f"must be finite, got {text!r}")
-    return v
-
-
-def _positive(text):
-    v = _number(text)
-    if v <= 0:
-        raise argparse.ArgumentTypeError(f"must be a positive number, got {text!r}")
-    return v
 
 
 def _named_positive(text):

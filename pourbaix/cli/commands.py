@@ -9,6 +9,8 @@ import math
 import sys
 from pathlib import Path
 
+from pourbaix.cli.types import finite_number as _float
+from pourbaix.cli.types import positive_number as _positive_float
 from pourbaix.errors import OptionError, PourbaixError
 
 __all__ = ["main", "build_parser"]
@@ -34,26 +36,6 @@ class _Parser(argparse.ArgumentParser):
         self.print_usage(sys.stderr)
         sys.stderr.write(f"pourbaix: error: {message}\n")
         raise SystemExit(2)
-
-
-def _positive_float(text):
-    try:
-        v = float(text)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"not a number: {text!r}") from None
-    if not (math.isfinite(v) and v > 0):
-        raise argparse.ArgumentTypeError(f"must be a positive number, got {text!r}")
-    return v
-
-
-def _float(text):
-    try:
-        v = float(text)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"not a number: {text!r}") from None
-    if not math.isfinite(v):
-        raise argparse.ArgumentTypeError(f"must be finite, got {text!r}")
-    return v
 
 
 def _ligand(text):
@@ -256,7 +238,6 @@ def _fmt_margin(v, unit):
     if v is None or not math.isfinite(v):
         return "none"
     return f"{v * 1000:.0f} mV" if unit == "V" else f"{v:.2f} pH"
-
 
 
 def _add_uncertainty(parser):
