@@ -5,6 +5,7 @@ from __future__ import annotations
 import contextlib
 import contextvars
 import os
+import sys
 import tempfile
 import uuid
 from pathlib import Path
@@ -15,6 +16,7 @@ __all__ = [
     "atomic_write_text",
     "atomic_write_with",
     "all_or_nothing",
+    "announce_written",
     "check_writable",
     "check_outputs",
     "discarded_outputs",
@@ -24,6 +26,9 @@ __all__ = [
 # into place together when the block ends without an error.
 _STAGED = contextvars.ContextVar("pourbaix_staged_outputs", default=None)
 _TEMP_PREFIX = ".pourbaix-"
+# "wrote FILE" lines of the block in progress: (path, to_stderr), printed after the files
+# are in place, so that no line announces a file a failing command then discards.
+_ANNOUNCED = contextvars.ContextVar("pourbaix_announced_outputs", default=None)
 # Destinations whose finished files the last failing all_or_nothing() block discarded.
 _LAST_DISCARDED = []
 
@@ -130,17 +135,48 @@ def all_or_nothing():
         yield
         return
     staged = []
+    announced = []
     token = _STAGED.set(staged)
+    said = _ANNOUNCED.set(announced)
     _LAST_DISCARDED[:] = []
     try:
         yield
     except BaseException:
         _STAGED.reset(token)
+        _ANNOUNCED.reset(said)
         _LAST_DISCARDED[:] = [str(target) for _, target in staged]
         _discard(staged)
         raise
     _STAGED.reset(token)
+    _ANNOUNCED.reset(said)
     _commit(staged)
+    for path, to_stderr in announced:
+        _announce_now(path, to_stderr=to_stderr)
+
+
+def _announce_now(path, *, to_stderr=False):
+    print(f"wrote {path}", file=sys.stderr if to_stderr else sys.stdout)
+
+
+def announce_written(path, *, to_stderr=False):
+    """Say ``wrote PATH`` once the file is really in place.
+
+    Inside :func:`all_or_nothing` the line is held back until every file of
+    the block has been moved into place (and dropped when the block fails);
+    outside, it is printed at once.
+
+    Parameters
+    ----------
+    path : str or Path
+        The file written.
+    to_stderr : bool
+        Print on standard error (e.g. when standard output carries JSON).
+    """
+    pending = _ANNOUNCED.get()
+    if pending is None:
+        _announce_now(path, to_stderr=to_stderr)
+    else:
+        pending.append((path, to_stderr))
 
 
 def _commit(staged):

@@ -1,9 +1,11 @@
 """All-or-nothing outputs: a failing command writes nothing and replaces nothing."""
 
 import os
+from pathlib import Path
 
 import pytest
 
+from pourbaix import outputs as export
 from pourbaix.cli.commands import main
 from pourbaix.errors import ExportError
 from pourbaix.outputs import all_or_nothing, atomic_write_text, check_writable
@@ -65,7 +67,7 @@ def test_a_failing_report_keeps_the_map_files_from_appearing(tmp_path, capsys, m
     def broken(*_args, **_kwargs):
         raise ExportError("report could not be rendered")
 
-    monkeypatch.setattr(document, "write_report_from_args", broken)
+    monkeypatch.setattr(document, "write_report", broken)
     code, out, err = run(
         capsys,
         "map",
@@ -76,6 +78,8 @@ def test_a_failing_report_keeps_the_map_files_from_appearing(tmp_path, capsys, m
         str(tmp_path / "zn.html"),
     )
     assert code == 2 and "report could not be rendered" in err
+    # no line announced the map file that was then discarded
+    assert "wrote" not in out and "wrote" not in err
     # the map file was finished before the report failed: the message says it was discarded
     assert "nothing was written: 1 finished file(s) discarded" in err
     assert len([line for line in err.splitlines() if "error:" in line]) == 1
@@ -117,3 +121,33 @@ def test_a_failed_move_puts_back_the_files_already_moved(tmp_path, monkeypatch):
             atomic_write_text(tmp_path / "second.csv", "new second")
     assert first.read_text(encoding="utf-8") == "old first"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["first.json"]
+
+
+def test_no_file_is_announced_when_moving_the_files_into_place_fails(tmp_path, capsys, monkeypatch):
+    # "wrote FILE" is said only once the file is in place: a command whose final move fails
+    # (disk full, folder removed meanwhile) prints no such line for any of its files
+    def refused(staged):
+        from pourbaix.outputs import _discard
+
+        _discard(staged)
+        raise ExportError("cannot write zn.json: No space left on device")
+
+    monkeypatch.setattr(export, "_commit", refused)
+    code, out, err = run(capsys, "map", "Zn", "--out", str(tmp_path / "zn.json"))
+    assert code == 2 and "No space left on device" in err
+    assert "wrote" not in out and "wrote" not in err
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_written_files_are_announced_after_they_are_in_place(tmp_path, capsys, monkeypatch):
+    seen = []
+
+    def announce(path, *, to_stderr=False):
+        seen.append((Path(path).name, sorted(p.name for p in tmp_path.iterdir())))
+
+    monkeypatch.setattr(export, "_announce_now", announce)
+    code, _, _ = run(
+        capsys, "map", "Zn", "--out", str(tmp_path / "zn.json"), "--out", str(tmp_path / "zn.csv")
+    )
+    assert code == 0
+    assert seen == [("zn.json", ["zn.csv", "zn.json"]), ("zn.csv", ["zn.csv", "zn.json"])]

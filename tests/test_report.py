@@ -15,17 +15,16 @@ import numpy as np
 import pytest
 
 from pourbaix import outputs as export
+from pourbaix.cli.files import add_report_option, write_report_from_args
 from pourbaix.errors import ExportError, OptionError
 from pourbaix.maps.domain_map import CAUTION, compute_map
 from pourbaix.maps.lines import boundary_equations
 from pourbaix.report.document import (
     REPORT_CAUTIONS,
-    add_report_option,
     render_report,
     table_html,
     table_markdown,
     write_report,
-    write_report_from_args,
 )
 
 # The cautions every report must carry (README, "Safety and limits"): one phrase per point.

@@ -3,19 +3,27 @@
 from __future__ import annotations
 
 import argparse
-import csv
-import io
 import json
 import sys
-from pathlib import Path
 
+from pourbaix.cli.files import (
+    FIGURE_SUFFIXES,
+    add_outputs,
+    checked_outputs,
+    csv_text,
+    report_target,
+    save_figures,
+    write_report_from_args,
+    write_text,
+)
 from pourbaix.cli.types import finite_number as _number
 from pourbaix.cli.types import positive_number as _positive
 from pourbaix.errors import DataFileError, OptionError
+from pourbaix.outputs import announce_written
 
 __all__ = ["register"]
 
-_FIGURES = (".png", ".svg", ".pdf")
+_FIGURES = FIGURE_SUFFIXES
 _SAFETY = (
     "Safety: a map is a thermodynamic prediction (equilibrium only); it says nothing about rates, film "
     "quality, pitting, crevices or microbiology. Cathodic-protection criteria, drinking-water decisions and "
@@ -31,19 +39,6 @@ _MAX_TABLE_ROWS = 10_000
 # ------------------------------------------------------------------ argument types
 
 
-def _outputs(paths, allowed, option="--out"):
-    from pourbaix.outputs import check_writable
-
-    outs = [Path(p) for p in paths or ()]
-    for o in outs:
-        if o.suffix.lower() not in allowed:
-            raise OptionError(
-                f"{option} {o}: unknown file type {o.suffix or '(none)'}; use one of {', '.join(allowed)}"
-            )
-        check_writable(o)
-    return outs
-
-
 def _one_element(a, command):
     if len(a.element) != 1:
         raise OptionError(f"{command}: give one element, got {' '.join(a.element)}")
@@ -55,36 +50,6 @@ def _notes(dmap):
         print(f"pourbaix: note: {w}", file=sys.stderr)
 
 
-def _write_text(path, text):
-    from pourbaix.outputs import atomic_write_text
-
-    atomic_write_text(path, text)
-    print(f"wrote {path}")
-
-
-def _report_target(a):
-    """Check ``--report`` before any computation: its folder exists and is writable.
-
-    The extension (.html, .htm, .md) is already checked when the arguments are parsed.
-
-    Returns
-    -------
-    Path or None
-        The report's path, or None without ``--report``.
-    """
-    from pourbaix.errors import ExportError
-    from pourbaix.outputs import check_writable
-
-    if not getattr(a, "report", None):
-        return None
-    p = Path(a.report)
-    try:
-        check_writable(p)
-    except ExportError as exc:
-        raise OptionError(f"--report: {exc}") from None
-    return p
-
-
 def _report(a, dmap, extra, figure=None):
     """Write the report asked for with ``--report`` (map, analysis sections, cautions).
 
@@ -92,44 +57,7 @@ def _report(a, dmap, extra, figure=None):
     """
     if not getattr(a, "report", None):
         return None
-    import contextlib
-
-    from pourbaix.report.document import write_report_from_args
-
-    quiet = contextlib.redirect_stdout(sys.stderr) if a.json else contextlib.nullcontext()
-    with quiet:
-        return write_report_from_args(a, dmap, extra=extra, figure=figure)
-
-
-def _csv_text(rows):
-    if not rows:
-        return ""
-    buf = io.StringIO()
-    keys = list(rows[0])
-    for r in rows[1:]:
-        keys += [k for k in r if k not in keys]
-    w = csv.DictWriter(buf, fieldnames=keys, lineterminator="\n")
-    w.writeheader()
-    for r in rows:
-        w.writerow(
-            {
-                k: (
-                    ""
-                    if r.get(k) is None
-                    else (" | ".join(r[k]) if isinstance(r.get(k), list | tuple) else r[k])
-                )
-                for k in keys
-            }
-        )
-    return buf.getvalue()
-
-
-def _save(ax, outs):
-    from pourbaix.plot import draw
-
-    for o in outs:
-        draw.save_figure(ax, o)
-        print(f"wrote {o}")
+    return write_report_from_args(a, dmap, extra=extra, figure=figure, to_stderr=a.json)
 
 
 def _parser(sub, name, help_text, description, example):
@@ -140,16 +68,6 @@ def _parser(sub, name, help_text, description, example):
         epilog=f"example: {example}\n\n{_SAFETY}",
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )
-
-
-def _add_outputs(p, out_help=None):
-    """The options every analysis command ends with: ``--out`` (when it writes files), ``--json``, ``--report``."""
-    from pourbaix.report.document import add_report_option
-
-    if out_help is not None:
-        p.add_argument("--out", action="append", default=[], metavar="FILE", help=out_help)
-    p.add_argument("--json", action="store_true", help="print JSON")
-    add_report_option(p)
 
 
 # ------------------------------------------------------------------ solubility
@@ -176,9 +94,9 @@ def _cmd_solubility(a, map_kwargs):
             f"--step {a.step:g} would make {(hi - lo) / a.step:.3g} rows; give a step of at least "
             f"{(hi - lo) / _MAX_TABLE_ROWS:g} (at most {_MAX_TABLE_ROWS} rows)"
         )
-    outs = _outputs(a.out, (*_FIGURES, ".csv", ".json"))
-    map_outs = _outputs(a.map_out, _FIGURES, "--map-out")
-    report = _report_target(a)
+    outs = checked_outputs(a.out, (*_FIGURES, ".csv", ".json"))
+    map_outs = checked_outputs(a.map_out, _FIGURES, "--map-out")
+    report = report_target(a)
     kwargs = map_kwargs(a)
     kwargs["ph_range"] = (min(lo, -2.0), max(hi, 16.0))
     dmap = compute_map(element, **kwargs)
@@ -253,9 +171,9 @@ def _cmd_solubility(a, map_kwargs):
             )
     for o in outs:
         if o.suffix.lower() == ".csv":
-            _write_text(o, _csv_text(rows))
+            write_text(o, csv_text(rows))
         elif o.suffix.lower() == ".json":
-            _write_text(
+            write_text(
                 o,
                 json.dumps(
                     {"element": element, "reference": ref, "rows": rows},
@@ -268,7 +186,7 @@ def _cmd_solubility(a, map_kwargs):
     figs = [o for o in outs if o.suffix.lower() in _FIGURES]
     if figs:
         fine = np.linspace(lo, hi, max(201, int((hi - lo) / 0.02) + 1))
-        _save(
+        save_figures(
             draw_solubility_curve(
                 solubility_curve(dmap, fine, potential_v=a.potential, along=a.along)
             ),
@@ -281,7 +199,7 @@ def _cmd_solubility(a, map_kwargs):
         # one drawing of the map with its iso-solubility lines serves --map-out and the report
         map_ax = draw.draw_map(dmap)
         add_solubility_lines(map_ax, dmap, levels, basis=a.basis)
-        _save(map_ax, map_outs)
+        save_figures(map_ax, map_outs)
         if report:
             summary = (
                 f"Lowest total dissolved {element} between pH {lo:g} and {hi:g}, {where}: pH {ph_min:.2f}, "
@@ -312,8 +230,8 @@ def _cmd_window(a, map_kwargs):
     from pourbaix.plot.analysis_figures import draw_window
 
     target = _one_element(a, "window")
-    outs = _outputs(a.out, (*_FIGURES, ".json"))
-    _report_target(a)
+    outs = checked_outputs(a.out, (*_FIGURES, ".json"))
+    report_target(a)
     kwargs = map_kwargs(a)
     w = leach_window(
         target,
@@ -334,10 +252,10 @@ def _cmd_window(a, map_kwargs):
             print(f"  note: {note}")
     for o in outs:
         if o.suffix.lower() == ".json":
-            _write_text(o, json.dumps(w.to_dict(), indent=2, ensure_ascii=False) + "\n")
+            write_text(o, json.dumps(w.to_dict(), indent=2, ensure_ascii=False) + "\n")
     figs = [o for o in outs if o.suffix.lower() in _FIGURES]
     if figs:
-        _save(draw_window(w), figs)
+        save_figures(draw_window(w), figs)
     _report(a, w.maps[w.dissolve], w)
     return 0
 
@@ -353,8 +271,8 @@ def _cmd_field(a, map_kwargs):
     )
     from pourbaix.plot.analysis_figures import draw_field_groups
 
-    outs = _outputs(a.out, (*_FIGURES, ".json", ".csv", ".html"))
-    _report_target(a)
+    outs = checked_outputs(a.out, (*_FIGURES, ".json", ".csv", ".html"))
+    report_target(a)
     data = read_field_csv(a.readings)
     for p in data.problems:
         print(
@@ -419,7 +337,7 @@ def _cmd_field(a, map_kwargs):
             )
     for o in outs:
         if o.suffix.lower() == ".json":
-            _write_text(
+            write_text(
                 o,
                 json.dumps(
                     {"reference": data.reference, "readings": table},
@@ -429,12 +347,12 @@ def _cmd_field(a, map_kwargs):
                 + "\n",
             )
         elif o.suffix.lower() == ".csv":
-            _write_text(o, _csv_text(table))
+            write_text(o, csv_text(table))
         elif o.suffix.lower() == ".html":
             _field_page(o, groups)
     figs = [o for o in outs if o.suffix.lower() in _FIGURES]
     if figs:
-        _save(draw_field_groups(groups), figs)
+        save_figures(draw_field_groups(groups), figs)
     _report(a, dmap, data)
     return 0
 
@@ -466,7 +384,7 @@ def _field_page(path, groups):
     write_interactive(
         path, maps, parameter="temperature" if len(maps) > 1 else None, readings=readings
     )
-    print(f"wrote {path}")
+    announce_written(path)
 
 
 # ------------------------------------------------------------------ reading
@@ -476,7 +394,7 @@ def _cmd_reading(a, map_kwargs):
     from pourbaix.physics.electrodes import get_reference
 
     element = _one_element(a, "reading")
-    _report_target(a)
+    report_target(a)
     kwargs = map_kwargs(a)
     # the map is vs the electrode of the measurement, as corrosion_reading(element, ...) builds it;
     # computed here once so that the report shows the same map
@@ -522,8 +440,8 @@ def _cmd_compare(a, map_kwargs):
     from pourbaix.plot.analysis_figures import draw_comparison
     from pourbaix.tables.species import load_species
 
-    outs = _outputs(a.out, (*_FIGURES, ".json", ".csv"))
-    _report_target(a)
+    outs = checked_outputs(a.out, (*_FIGURES, ".json", ".csv"))
+    report_target(a)
     base = map_kwargs(a)
     other = dict(base)
     changed = []
@@ -584,7 +502,7 @@ def _cmd_compare(a, map_kwargs):
         print("\n".join(comparison_table_lines(cmp)))
     for o in outs:
         if o.suffix.lower() == ".json":
-            _write_text(
+            write_text(
                 o,
                 json.dumps(
                     {
@@ -599,10 +517,10 @@ def _cmd_compare(a, map_kwargs):
                 + "\n",
             )
         elif o.suffix.lower() == ".csv":
-            _write_text(o, _csv_text(rows))
+            write_text(o, csv_text(rows))
     figs = [o for o in outs if o.suffix.lower() in _FIGURES]
     if figs:
-        _save(draw_comparison(cmp), figs)
+        save_figures(draw_comparison(cmp), figs)
     _report(a, map_a, cmp)
     return 0
 
@@ -685,7 +603,7 @@ def register(sub, add_conditions, map_kwargs):
         default="total",
         help="lines of the total (default) or of each dissolved species on its own",
     )
-    _add_outputs(p)
+    add_outputs(p)
     p.set_defaults(func=lambda a: _cmd_solubility(a, map_kwargs), window=False)
 
     w = _parser(
@@ -730,7 +648,7 @@ def register(sub, add_conditions, map_kwargs):
         action="store_true",
         help="do not limit the window to the stability field of water",
     )
-    _add_outputs(w, "figure (.png/.svg/.pdf) or .json; repeatable")
+    add_outputs(w, "figure (.png/.svg/.pdf) or .json; repeatable")
     w.set_defaults(func=lambda a: _cmd_window(a, map_kwargs), window=True)
 
     f = _parser(
@@ -752,7 +670,7 @@ def register(sub, add_conditions, map_kwargs):
         help="maps for the readings: one per temperature of the readings, rounded to 1 °C (default); "
         "one per reading at its exact temperature; or none (all on the map at --temperature)",
     )
-    _add_outputs(f, "figure (.png/.svg/.pdf), .csv, .json or .html (interactive page); repeatable")
+    add_outputs(f, "figure (.png/.svg/.pdf), .csv, .json or .html (interactive page); repeatable")
     f.set_defaults(func=lambda a: _cmd_field(a, map_kwargs), window=True)
 
     r = _parser(
@@ -773,7 +691,7 @@ def register(sub, add_conditions, map_kwargs):
         metavar="E",
         help="measured potential [V vs --reference]",
     )
-    _add_outputs(r)
+    add_outputs(r)
     r.set_defaults(func=lambda a: _cmd_reading(a, map_kwargs), window=False)
 
     c = _parser(
@@ -808,5 +726,5 @@ def register(sub, add_conditions, map_kwargs):
         metavar="X",
         help="compare every sloped boundary at this pH (default: each boundary's midpoint)",
     )
-    _add_outputs(c, "overlay figure (.png/.svg/.pdf), .csv or .json; repeatable")
+    add_outputs(c, "overlay figure (.png/.svg/.pdf), .csv or .json; repeatable")
     c.set_defaults(func=lambda a: _cmd_compare(a, map_kwargs), window=True)

@@ -3,20 +3,28 @@
 from __future__ import annotations
 
 import argparse
-import csv
-import io
 import json
 import math
 import sys
-from pathlib import Path
 
+from pourbaix.cli.files import (
+    FIGURE_SUFFIXES,
+    add_outputs,
+    checked_outputs,
+    csv_text,
+    report_target,
+    save_figures,
+    write_text,
+)
 from pourbaix.cli.types import finite_number as _number
+from pourbaix.cli.types import named_positive
 from pourbaix.cli.types import positive_number as _positive
 from pourbaix.errors import ConditionsError, OptionError
+from pourbaix.outputs import announce_written
 
 __all__ = ["register"]
 
-_FIGURES = (".png", ".svg", ".pdf")
+_FIGURES = FIGURE_SUFFIXES
 _CAUTION = (
     "Caution: a cell potential or galvanic driving force is thermodynamic; a thermodynamic driving "
     "force is not a corrosion rate. Cathodic-protection and material-selection decisions belong to "
@@ -27,17 +35,7 @@ _CAUTION = (
 # ------------------------------------------------------------------ argument types
 
 
-def _named_positive(text):
-    if "=" not in text:
-        raise argparse.ArgumentTypeError(f"expected NAME=VALUE such as Zn2+=0.01, got {text!r}")
-    name, _, value = text.rpartition("=")
-    try:
-        v = float(value)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"{name!r}: {value!r} is not a number") from None
-    if not (math.isfinite(v) and v > 0):
-        raise argparse.ArgumentTypeError(f"{name!r}: must be > 0, got {value!r}")
-    return name.strip(), v
+_named_positive = named_positive("Zn2+=0.01", "value", last_equals=True)
 
 
 _KINETIC_KEYS = {
@@ -89,54 +87,6 @@ def _kinetics(text):
 
 
 # ------------------------------------------------------------------ shared helpers
-def _outputs(paths, allowed, option="--out"):
-    from pourbaix.outputs import check_writable
-
-    outs = [Path(p) for p in paths or ()]
-    for o in outs:
-        if o.suffix.lower() not in allowed:
-            raise OptionError(
-                f"{option} {o}: unknown file type {o.suffix or '(none)'}; use one of {', '.join(allowed)}"
-            )
-        check_writable(o)
-    return outs
-
-
-def _report_target(a):
-    from pourbaix.errors import ExportError
-    from pourbaix.outputs import check_writable
-
-    if not getattr(a, "report", None):
-        return None
-    p = Path(a.report)
-    try:
-        check_writable(p)
-    except ExportError as exc:
-        raise OptionError(f"--report: {exc}") from None
-    return p
-
-
-def _write_text(path, text, quiet=False):
-    from pourbaix.outputs import atomic_write_text
-
-    atomic_write_text(path, text)
-    print(f"wrote {path}", file=sys.stderr if quiet else sys.stdout)
-
-
-def _csv_text(rows):
-    if not rows:
-        return ""
-    buf = io.StringIO()
-    keys = list(rows[0])
-    for r in rows[1:]:
-        keys += [k for k in r if k not in keys]
-    w = csv.DictWriter(buf, fieldnames=keys, lineterminator="\n")
-    w.writeheader()
-    for r in rows:
-        w.writerow({k: "" if r.get(k) is None else r[k] for k in keys})
-    return buf.getvalue()
-
-
 def _state_from(a, *, default_activity):
     """SolutionState from --ph, --activity, --molality, --species-activity/-molality, I."""
     from pourbaix.physics.halfreactions import SolutionState, find_species
@@ -282,36 +232,23 @@ def _parser(sub, name, help_text, description, examples):
     )
 
 
-def _add_outputs(p, out_help):
-    from pourbaix.report.document import add_report_option
-
-    p.add_argument("--out", action="append", default=[], metavar="FILE", help=out_help)
-    p.add_argument("--json", action="store_true", help="print JSON")
-    add_report_option(p)
-
-
 def _notes(notes):
     for w in notes:
         print(f"pourbaix: note: {w}", file=sys.stderr)
 
 
 def _write_report(a, **kwargs):
-    import contextlib
-
     from pourbaix.report.document import write_document
 
-    quiet = contextlib.redirect_stdout(sys.stderr) if a.json else contextlib.nullcontext()
-    with quiet:
-        path = write_document(a.report, **kwargs)
-        print(f"wrote {path}")
+    announce_written(write_document(a.report, **kwargs), to_stderr=a.json)
 
 
 # ------------------------------------------------------------------ series
 def _cmd_series(a):
     from pourbaix.analyses.cells import CAUTION, electrochemical_series
 
-    outs = _outputs(a.out, (".csv", ".json"))
-    _report_target(a)
+    outs = checked_outputs(a.out, (".csv", ".json"))
+    report_target(a)
     formal = any(x is not None and x != [] for x in (a.ph, a.activity, a.molality)) or bool(
         a.species_activity or a.species_molality
     )
@@ -330,9 +267,9 @@ def _cmd_series(a):
     rows = res.rows()
     for o in outs:
         if o.suffix.lower() == ".csv":
-            _write_text(o, _csv_text(rows), quiet=a.json)
+            write_text(o, csv_text(rows), to_stderr=a.json)
         else:
-            _write_text(o, json.dumps(rows, indent=2, ensure_ascii=False) + "\n", quiet=a.json)
+            write_text(o, json.dumps(rows, indent=2, ensure_ascii=False) + "\n", to_stderr=a.json)
     if a.json:
         print(json.dumps(rows, indent=2, ensure_ascii=False))
     elif a.reaction:
@@ -456,8 +393,8 @@ def _series_report(res, state, caution):
 def _cmd_cell(a):
     from pourbaix.analyses.cells import CAUTION, cell_potential
 
-    outs = _outputs(a.out, (".json",))
-    _report_target(a)
+    outs = checked_outputs(a.out, (".json",))
+    report_target(a)
     if len(a.cell) not in (1, 2):
         raise OptionError(
             "cell: give the cell in one string ('Zn | Zn2+ || Cu2+ | Cu') or the anode and the cathode"
@@ -487,7 +424,7 @@ def _cmd_cell(a):
         for f in factors
     ]
     for o in outs:
-        _write_text(o, json.dumps(d, indent=2, ensure_ascii=False) + "\n", quiet=a.json)
+        write_text(o, json.dumps(d, indent=2, ensure_ascii=False) + "\n", to_stderr=a.json)
     if a.json:
         print(json.dumps(d, indent=2, ensure_ascii=False))
     else:
@@ -616,9 +553,9 @@ def _cell_report(res, factors, caution):
 def _cmd_couple(a, map_kwargs):
     from pourbaix.analyses.cells import CAUTION, ElectrodeKinetics, galvanic_couple
 
-    outs = _outputs(a.out, (*_FIGURES, ".json", ".csv"))
-    evans = _outputs(a.evans, _FIGURES, "--evans")
-    _report_target(a)
+    outs = checked_outputs(a.out, (*_FIGURES, ".json", ".csv"))
+    evans = checked_outputs(a.evans, _FIGURES, "--evans")
+    report_target(a)
     if a.ratio is not None:
         raise OptionError(
             "couple: --ratio is for alloy maps; give each metal of the couple on its own"
@@ -655,25 +592,19 @@ def _cmd_couple(a, map_kwargs):
     quiet = a.json
     for o in outs:
         if o.suffix.lower() == ".json":
-            _write_text(o, json.dumps(res.to_dict(), indent=2, ensure_ascii=False) + "\n", quiet)
+            write_text(o, json.dumps(res.to_dict(), indent=2, ensure_ascii=False) + "\n", quiet)
         elif o.suffix.lower() == ".csv":
-            _write_text(o, _csv_text(res.rows()), quiet)
+            write_text(o, csv_text(res.rows()), quiet)
     if figure_outs:
         from pourbaix.plot.cells import draw_couple_maps
-        from pourbaix.plot.draw import save_figure
 
         fig = draw_couple_maps(res, overlay=a.overlay)
-        for o in figure_outs:
-            save_figure(fig, o)
-            print(f"wrote {o}", file=sys.stderr if quiet else sys.stdout)
+        save_figures(fig, figure_outs, to_stderr=quiet)
     if evans:
         from pourbaix.plot.cells import draw_evans
-        from pourbaix.plot.draw import save_figure
 
         ax = draw_evans(res.mixed, reference=res.reference)
-        for o in evans:
-            save_figure(ax, o)
-            print(f"wrote {o}", file=sys.stderr if quiet else sys.stdout)
+        save_figures(ax, evans, to_stderr=quiet)
     if a.json:
         print(json.dumps(res.to_dict(), indent=2, ensure_ascii=False))
     else:
@@ -821,7 +752,7 @@ def register(sub, add_conditions, map_kwargs):
     _add_solution_options(
         s, ph_help="pH for formal potentials (default: standard state, a(H+) = 1)"
     )
-    _add_outputs(s, "table as .csv or .json; repeatable")
+    add_outputs(s, "table as .csv or .json; repeatable")
     s.set_defaults(func=_cmd_series)
 
     c = _parser(
@@ -854,7 +785,7 @@ def register(sub, add_conditions, map_kwargs):
         help="also show the reaction multiplied by F (×1 and ×2 are always shown)",
     )
     _add_solution_options(c, ph_help="pH (sets a(H+) and a(OH-); default: standard state)")
-    _add_outputs(c, "result as .json")
+    add_outputs(c, "result as .json")
     c.set_defaults(func=_cmd_cell)
 
     cp = _parser(
@@ -908,5 +839,5 @@ def register(sub, add_conditions, map_kwargs):
         metavar="FILE",
         help="Evans diagram (.png/.svg/.pdf); needs --kinetics",
     )
-    _add_outputs(cp, "maps with points (.png/.svg/.pdf), .json or .csv; repeatable")
+    add_outputs(cp, "maps with points (.png/.svg/.pdf), .json or .csv; repeatable")
     cp.set_defaults(func=lambda a: _cmd_couple(a, map_kwargs), window=False)

@@ -9,9 +9,12 @@ import math
 import sys
 from pathlib import Path
 
+from pourbaix.cli.files import add_report_option, write_report_from_args
 from pourbaix.cli.types import finite_number as _float
+from pourbaix.cli.types import named_positive, ratio_amounts
 from pourbaix.cli.types import positive_number as _positive_float
 from pourbaix.errors import OptionError, PourbaixError
+from pourbaix.outputs import announce_written
 
 __all__ = ["main", "build_parser"]
 
@@ -38,30 +41,7 @@ class _Parser(argparse.ArgumentParser):
         raise SystemExit(2)
 
 
-def _ligand(text):
-    if "=" not in text:
-        raise argparse.ArgumentTypeError(f"expected NAME=ACTIVITY such as S=1e-3, got {text!r}")
-    name, _, value = text.partition("=")
-    try:
-        v = float(value)
-    except ValueError:
-        raise argparse.ArgumentTypeError(
-            f"ligand {name!r}: activity {value!r} is not a number"
-        ) from None
-    if not (math.isfinite(v) and v > 0):
-        raise argparse.ArgumentTypeError(f"ligand {name!r}: activity must be > 0, got {value!r}")
-    return name.strip(), v
-
-
-def _ratio(text):
-    parts = text.replace(",", ":").split(":")
-    try:
-        vals = tuple(float(p) for p in parts)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"expected amounts like 70:19:11, got {text!r}") from None
-    if any(not (math.isfinite(v) and v > 0) for v in vals):
-        raise argparse.ArgumentTypeError(f"ratio amounts must be > 0, got {text!r}")
-    return vals
+_ligand = named_positive("S=1e-3", "activity")
 
 
 def _add_conditions(p, window=True):
@@ -151,7 +131,7 @@ def _add_conditions(p, window=True):
     )
     g.add_argument(
         "--ratio",
-        type=_ratio,
+        type=ratio_amounts,
         help="amounts of the metals, e.g. 70:19:11 for Fe Cr Ni (largest at most 1e9 x smallest)",
     )
     g.add_argument(
@@ -324,12 +304,9 @@ def cmd_map(a):
             add_solubility_lines(ax, dmap, a.solubility_lines or DEFAULT_LEVELS)
         for o in figure_outs:
             draw.save_figure(ax, o)
-    if a.report:
-        from pourbaix.report.document import write_report_from_args
-
-        write_report_from_args(a, dmap)
     for o in outs:
-        print(f"wrote {o}")
+        announce_written(o)
+    write_report_from_args(a, dmap)
     print(f"{len(dmap.domains)} domains: " + ", ".join(" + ".join(d.species) for d in dmap.domains))
     if dmap.never_stable:
         print("never stable in the window: " + ", ".join(dmap.never_stable))
@@ -369,11 +346,7 @@ def _with_potential(a, window):
 
 def _report_of(a, dmap):
     """Write the --report of a probe, lines or species command (the map's report)."""
-    if getattr(a, "report", None):
-        from pourbaix.report.document import write_report_from_args
-
-        write_report_from_args(a, dmap)
-        print(f"wrote {a.report}", file=sys.stderr)
+    write_report_from_args(a, dmap, to_stderr=True)
 
 
 def _slider_maps(a, dmap):
@@ -681,7 +654,6 @@ def build_parser():
         "stepped through by a slider",
     )
     from pourbaix.cli.balance import add_balance_options
-    from pourbaix.report.document import add_report_option
 
     add_balance_options(m)
     add_report_option(m)

@@ -14,7 +14,6 @@ never inject markup.
 
 from __future__ import annotations
 
-import argparse
 import datetime as _dt
 import html
 import io
@@ -35,9 +34,8 @@ __all__ = [
     "analysis_sections",
     "render_report",
     "write_report",
-    "add_report_option",
-    "write_report_from_args",
     "write_document",
+    "report_kind",
 ]
 
 #: Report kinds by file extension.
@@ -1319,7 +1317,24 @@ def _render_markdown(doc, figure_files):
     return "\n".join(out)
 
 
-def _kind(path):
+def report_kind(path):
+    """The kind of report a file name asks for.
+
+    Parameters
+    ----------
+    path : str or Path
+        The report's file name.
+
+    Returns
+    -------
+    str
+        ``"html"`` or ``"markdown"``.
+
+    Raises
+    ------
+    OptionError
+        If the extension is not one of :data:`REPORT_FORMATS`.
+    """
     ext = Path(path).suffix.lower()
     if ext not in REPORT_FORMATS:
         raise OptionError(
@@ -1452,7 +1467,7 @@ def write_report(
     from pourbaix.outputs import check_writable
 
     p = Path(path)
-    kind = _kind(p)
+    kind = report_kind(p)
     check_writable(p)
     doc = _build(
         dmap,
@@ -1533,7 +1548,7 @@ def write_document(path, *, title, facts=(), sections=(), cautions=(), figure=No
     from pourbaix.outputs import check_writable
 
     p = Path(path)
-    kind = _kind(p)
+    kind = report_kind(p)
     check_writable(p)
     when = _dt.datetime.now(_dt.UTC).strftime("%Y-%m-%d %H:%M UTC")
     doc = _Doc(
@@ -1553,79 +1568,3 @@ def write_document(path, *, title, facts=(), sections=(), cautions=(), figure=No
         doc.sections.append((f"section-{k}", section, fig_index))
     _write_doc(p, kind, doc)  # closes the figures
     return p
-
-
-# ---------------------------------------------------------------------- command line
-def _report_path(text):
-    try:
-        _kind(text)
-    except OptionError as exc:
-        raise argparse.ArgumentTypeError(str(exc)) from None
-    return text
-
-
-def add_report_option(parser):
-    """Add ``--report FILE.html|.md`` to a command's parser.
-
-    Parameters
-    ----------
-    parser : argparse.ArgumentParser
-        The command's parser.
-
-    Returns
-    -------
-    argparse.Action
-    """
-    return parser.add_argument(
-        "--report",
-        type=_report_path,
-        metavar="FILE",
-        help="write a report: FILE.html (one self-contained page, figures inline) or FILE.md (figures as "
-        "sibling .svg files) with conditions, boundaries, species, sources, warnings and cautions",
-    )
-
-
-def write_report_from_args(args, dmap, extra=None, figure=None):
-    """Write the report asked for with ``--report`` (does nothing without it).
-
-    Parameters
-    ----------
-    args : argparse.Namespace
-        Parsed arguments of a command that called :func:`add_report_option`;
-        ``args.second_axis`` is honoured when present.
-    dmap : DomainMap
-        The command's map.
-    extra : object or sequence, optional
-        Analysis result(s) to add (see :func:`write_report`, ``analyses``).
-    figure : matplotlib Figure or Axes, optional
-        The figure the command already drew (e.g. with its own options), used
-        as the report's main figure; None draws the map.
-
-    Returns
-    -------
-    Path or None
-        The report's path, or None when ``--report`` was not given.
-
-    Raises
-    ------
-    ExportError
-        If the report cannot be written.
-    """
-    path = getattr(args, "report", None)
-    if not path:
-        return None
-    if extra is None:
-        analyses = []
-    elif isinstance(extra, list | tuple):
-        analyses = list(extra)
-    else:
-        analyses = [extra]
-    out = write_report(
-        path,
-        dmap,
-        analyses=analyses,
-        figure=figure,
-        second_reference=getattr(args, "second_axis", None),
-    )
-    print(f"wrote {out}")
-    return out
