@@ -6,18 +6,10 @@ import sys
 
 import pytest
 import shapely.geometry
+from cli_run import run
 
 import pourbaix
 from pourbaix.cli.commands import main
-
-
-def run(capsys, *args):
-    try:
-        code = main(list(args))
-    except SystemExit as exc:  # argparse usage errors
-        code = exc.code
-    out, err = capsys.readouterr()
-    return code, out, err
 
 
 def test_map_writes_figure_json_and_csv(tmp_path, capsys):

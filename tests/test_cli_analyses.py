@@ -4,25 +4,12 @@ import json
 from pathlib import Path
 
 import pytest
+from cli_run import one_error_line, run
 
 from pourbaix.cli.commands import main
 from pourbaix.tables.species import load_species
 
 FIELD = Path(__file__).parent / "data" / "field"
-
-
-def run(capsys, *args):
-    try:
-        code = main(list(args))
-    except SystemExit as exc:  # argparse usage errors
-        code = exc.code
-    out, err = capsys.readouterr()
-    return code, out, err
-
-
-def one_error_line(err):
-    lines = [ln for ln in err.splitlines() if ln.startswith("pourbaix: error:")]
-    return len(lines) == 1
 
 
 # ------------------------------------------------------------------ solubility

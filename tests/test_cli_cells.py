@@ -10,21 +10,7 @@ import io
 import json
 
 import pytest
-
-from pourbaix.cli.commands import main
-
-
-def run(capsys, *args):
-    try:
-        code = main(list(args))
-    except SystemExit as exc:  # argparse usage errors
-        code = exc.code
-    out, err = capsys.readouterr()
-    return code, out, err
-
-
-def one_error_line(err):
-    return len([ln for ln in err.splitlines() if ln.startswith("pourbaix: error:")]) == 1
+from cli_run import one_error_line, run
 
 
 def test_series_at_60_c_vs_sce(capsys):

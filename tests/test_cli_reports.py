@@ -10,22 +10,12 @@ import math
 import re
 
 import pytest
-
-from pourbaix.cli.commands import main
+from cli_run import run
 
 K25 = 8.314462618 * 298.15 * math.log(10) / 96485.33212  # R T ln10 / F at 25 °C (CODATA 2018)
 
 # Phrases of the cautions every report carries (common practice for this project's reports; README, "Safety and limits")
 CAUTIONS = ("thermodynamic prediction", "local codes", "applicable standards", "licensed practice")
-
-
-def run(capsys, *args):
-    try:
-        code = main([str(a) for a in args])
-    except SystemExit as exc:  # argparse usage errors
-        code = exc.code
-    out, err = capsys.readouterr()
-    return code, out, err
 
 
 def text_of(fragment):

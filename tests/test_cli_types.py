@@ -1,14 +1,9 @@
 """Option types of the command line: NAME=VALUE pairs and ratios, read once for every command."""
 
 import pytest
+from cli_run import run
 
 from pourbaix.cli.commands import main
-
-
-def run(capsys, *args):
-    code = main(list(args))
-    out, err = capsys.readouterr()
-    return code, out, err
 
 
 @pytest.mark.parametrize(

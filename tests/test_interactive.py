@@ -9,12 +9,12 @@ map by structure (each domain's tint shows as its own region).
 import json
 import os
 import re
-import shutil
 import subprocess
 import time
 
 import numpy as np
 import pytest
+from browser import browser_or_skip
 
 import pourbaix
 from pourbaix.cli.commands import main
@@ -81,27 +81,6 @@ def test_cli_writes_the_page_with_a_slider(tmp_path, capsys):
 
 
 # ---------------------------------------------------------------------- a real browser
-def _chromium():
-    for name in ("chromium", "chromium-browser"):
-        path = shutil.which(name)
-        if path:
-            return path
-    return "/usr/bin/chromium" if os.path.exists("/usr/bin/chromium") else None
-
-
-def _browser_or_skip():
-    exe = _chromium()
-    if exe is None:
-        if os.environ.get("CI", "").lower() in ("1", "true", "yes"):
-            pytest.fail(
-                "Chromium is not installed, and CI is set: .ci/run must install Debian's chromium package"
-            )
-        pytest.skip(
-            "Chromium is not installed (apt-get install chromium); the browser test runs in CI"
-        )
-    return exe
-
-
 class _Browser:
     """Headless Chromium driven over the DevTools protocol on a pipe (fd 3 in, fd 4 out)."""
 
@@ -229,7 +208,7 @@ def _text(b, element_id):
 
 @pytest.fixture(scope="module")
 def browser(tmp_path_factory):
-    exe = _browser_or_skip()
+    exe = browser_or_skip()
     b = _Browser(exe, tmp_path_factory.mktemp("profile"))
     yield b
     b.close()

@@ -4,17 +4,11 @@ import os
 from pathlib import Path
 
 import pytest
+from cli_run import run
 
 from pourbaix import outputs as export
-from pourbaix.cli.commands import main
 from pourbaix.errors import ExportError
 from pourbaix.outputs import all_or_nothing, atomic_write_text, check_writable
-
-
-def run(capsys, *args):
-    code = main(list(args))
-    out, err = capsys.readouterr()
-    return code, out, err
 
 
 def test_a_failure_inside_the_block_leaves_no_file_and_keeps_the_old_one(tmp_path):

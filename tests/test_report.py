@@ -6,13 +6,13 @@ import argparse
 import html
 import os
 import re
-import shutil
 import subprocess
 import xml.etree.ElementTree as ET
 from html.parser import HTMLParser
 
 import numpy as np
 import pytest
+from browser import browser_or_skip
 
 from pourbaix import outputs as export
 from pourbaix.cli.files import add_report_option, write_report_from_args
@@ -455,27 +455,6 @@ def test_cli_hook(fe60, tmp_path, capsys):
 
 
 # ---------------------------------------------------------------------- a real browser
-def _chromium():
-    for name in ("chromium", "chromium-browser"):
-        path = shutil.which(name)
-        if path:
-            return path
-    return "/usr/bin/chromium" if os.path.exists("/usr/bin/chromium") else None
-
-
-def _browser_or_skip():
-    exe = _chromium()
-    if exe is None:
-        if os.environ.get("CI", "").lower() in ("1", "true", "yes"):
-            pytest.fail(
-                "Chromium is not installed, and CI is set: .ci/run must install Debian's chromium package"
-            )
-        pytest.skip(
-            "Chromium is not installed (apt-get install chromium); the browser test runs in CI"
-        )
-    return exe
-
-
 def _run_browser(exe, profile, *args):
     cmd = [
         exe,
@@ -494,7 +473,7 @@ def _run_browser(exe, profile, *args):
 
 
 def test_report_in_headless_chromium(tmp_path):
-    exe = _browser_or_skip()
+    exe = browser_or_skip()
     m = compute_map("Cu")
     page = tmp_path / "cu report.html"
     write_report(page, m, title="Copper in a potable water")

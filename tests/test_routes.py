@@ -8,8 +8,8 @@ temperature 373.946 °C.
 import json
 
 import pytest
+from cli_run import run
 
-from pourbaix.cli.commands import main
 from pourbaix.maps.domain_map import compute_map
 
 REAL = (
@@ -20,15 +20,6 @@ REAL = (
     "IAPWS-95",
     "convention (H+ = 0)",
 )
-
-
-def run(capsys, *args):
-    try:
-        code = main(list(args))
-    except SystemExit as exc:
-        code = exc.code
-    out, err = capsys.readouterr()
-    return code, out, err
 
 
 @pytest.mark.parametrize("element", ["Fe", "Ni", "Cu", "Zn"])
