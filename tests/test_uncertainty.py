@@ -7,6 +7,7 @@ uncertainty sqrt(2) u / (RT ln 10) (law of propagation of uncertainty, JCGM
 +-1.96 of that (normal distribution; JCGM 101:2008).
 """
 
+import dataclasses
 import math
 
 import numpy as np
@@ -14,7 +15,8 @@ import pytest
 
 from pourbaix.analyses.uncertainty import boundary_band, sample_maps, species_probabilities
 from pourbaix.cli import main
-from pourbaix.errors import OptionError
+from pourbaix.errors import DataFileError, OptionError
+from pourbaix.tables.species import load_species, read_species_file
 
 RT_LN10 = 8.314462618 * 298.15 * math.log(10) / 1000  # [kJ/mol]
 
@@ -65,3 +67,104 @@ def test_cli_probe_and_map(capsys, tmp_path):
     assert target.stat().st_size > 0
     assert main(["map", "As", "--uncertainty", "--samples", "2", "--out", str(target)]) == 2
     assert "--samples 2" in capsys.readouterr().err
+
+
+# ---- rows that carry their source's uncertainty -------------------------------------------
+
+T_KK = 298.15e-3  # [kK]: T in kK turns J/(mol K) into kJ/mol
+
+
+def _codata_u(u_dh, u_s, elements):
+    """Standard uncertainty of dG = dH - T dS from CODATA 1989 +/- values (95 %, k = 2).
+
+    U(dG)^2 = U(dH)^2 + T^2 [U(S)^2 + sum (nu U(S_element))^2] (JCGM 100:2008 eq. 10,
+    independent inputs); u = U / 2.
+    """
+    return 0.5 * math.sqrt(u_dh**2 + T_KK**2 * (u_s**2 + sum((n * x) ** 2 for n, x in elements)))
+
+
+# CODATA Key Values (Cox, Wagman & Medvedev 1989), printed +/- of dH [kJ/mol] and S [J/(mol K)]
+# (from memory): Al3+ 1.5 and 10; Al2O3 1.3 and 0.10; Mg2+ 0.6 and 4; MgO 0.30 and 0.15;
+# elements Al(cr) 0.10, Mg(cr) 0.10, H2(g) 0.003, O2(g) 0.005.
+CODATA_ROWS = [
+    ("Al^3+", "aq", _codata_u(1.5, 10, [(1, 0.10), (1.5, 0.003)])),
+    ("Al2O3", "s", _codata_u(1.3, 0.10, [(2, 0.10), (1.5, 0.005)])),
+    ("Mg^2+", "aq", _codata_u(0.6, 4, [(1, 0.10), (1, 0.003)])),
+    ("MgO", "s", _codata_u(0.30, 0.15, [(1, 0.10), (0.5, 0.005)])),
+]
+
+
+@pytest.mark.parametrize("name, phase, expected", CODATA_ROWS, ids=[r[0] for r in CODATA_ROWS])
+def test_codata_rows_carry_the_propagated_uncertainty(name, phase, expected):
+    row = load_species().get(name, phase)
+    assert row.source == "CODATA89"  # only a row whose value is the CODATA one may carry it
+    assert row.dgf_unc_kj_mol == pytest.approx(expected, abs=0.006)  # the row prints 2 decimals
+
+
+def test_hand_calculation_of_the_al3_uncertainty():
+    # Al3+: U(dH) 1.5 kJ/mol, U(S) 10 J/(mol K) dominate: sqrt(1.5^2 + (0.29815 * 10)^2) / 2
+    # = sqrt(2.25 + 8.889) / 2 = 1.669 kJ/mol (CODATA 1989 +/-, from memory)
+    assert load_species().get("Al^3+", "aq").dgf_unc_kj_mol == pytest.approx(1.669, abs=0.005)
+
+
+def test_review_constants_carry_their_log_k_uncertainty():
+    # Powell et al. 2007 (IUPAC, Cu2+ + CO3^2-): log beta2 = 10.3 +/- 0.1 (95 %; from memory):
+    # u(dG) = RT ln10 * 0.1 / 2 = 5.708 * 0.05 kJ/mol
+    row = load_species().get("Cu(CO3)2^2-", "aq")
+    assert row.dgf_unc_kj_mol == pytest.approx(RT_LN10 * 0.1 / 2, abs=0.006)
+
+
+def test_loader_reads_the_column_and_refuses_a_negative_value(tmp_path):
+    path = tmp_path / "mine.csv"
+    path.write_text(
+        "formula,phase,dgf_kj_mol,dgf_unc_kj_mol,source\n"
+        "Zn^2+,aq,-147.2,0.25,X\nZnO,s,-320.5,,X\n",
+        encoding="utf-8",
+    )
+    zn, zno = read_species_file(path)
+    assert zn.dgf_unc_kj_mol == 0.25 and zno.dgf_unc_kj_mol is None
+    path.write_text(
+        "formula,phase,dgf_kj_mol,dgf_unc_kj_mol,source\nZn^2+,aq,-147.2,-0.25,X\n",
+        encoding="utf-8",
+    )
+    with pytest.raises(DataFileError) as info:
+        read_species_file(path)
+    ((where, line, _, message),) = info.value.problems
+    assert where == str(path) and line == 2 and "dgf_unc_kj_mol -0.25 must be >= 0" in message
+
+
+def _acid_side_width(result, acid, ph, potential_v):
+    """pH span over which the share of `acid` falls from 97.5 % to 2.5 % at one potential."""
+    share = np.zeros_like(ph)
+    for m in result.samples:
+        share += np.asarray(m.probe(ph, np.full_like(ph, potential_v)).species, dtype=object) == acid
+    share /= len(result.samples)
+    return ph[np.argmax(share < 0.025)] - ph[np.argmax(share < 0.975)]
+
+
+def test_band_is_wider_where_the_row_states_a_larger_uncertainty():
+    # default 0: only the rows with a stated uncertainty move (Mg2+ 0.67, MgO 0.15 kJ/mol).
+    # The Mg2+/Mg(OH)2 line, Mg(OH)2 + 2 H+ = Mg2+ + 2 H2O, sits at pH = (log K - log a)/2,
+    # so its pH has standard uncertainty u(Mg2+) / (2 RT ln10) and its 95 % band spans
+    # 2 * 1.96 of that (JCGM 100:2008 eq. 10; JCGM 101:2008).
+    table = load_species()
+    mg = table.get("Mg^2+", "aq")
+    wider = dataclasses.replace(
+        table,
+        species=tuple(
+            dataclasses.replace(s, dgf_unc_kj_mol=3 * mg.dgf_unc_kj_mol) if s is mg else s
+            for s in table.species
+        ),
+    )
+    ph = np.linspace(8.0, 12.0, 801)
+    widths = []
+    for t in (table, wider):
+        r = sample_maps(
+            "Mg", samples=200, default_uncertainty_kj_mol=0.0, seed=3, table=t,
+            exclude=["MgOH^+"],  # its line lies 0.02 pH from Mg2+/Mg(OH)2 at 1e-6
+        )  # fmt: skip
+        assert r.stated == 2  # Mg2+ and MgO
+        widths.append(_acid_side_width(r, "Mg^2+", ph, 0.0))
+    expected = [2 * 1.96 * u / (2 * RT_LN10) for u in (mg.dgf_unc_kj_mol, 3 * mg.dgf_unc_kj_mol)]
+    assert widths[1] > 2 * widths[0]
+    assert widths == pytest.approx(expected, rel=0.3)  # 200 draws: band edges to a few %

@@ -2,9 +2,12 @@
 
 The Gibbs energy of formation of each species of the element system is drawn
 from a normal distribution, mean the table value, standard deviation the row's
-stated uncertainty (``dgf_unc_kj_mol``) or a default the user chooses for rows
-that state none; the map is solved once per sample (Monte Carlo propagation of
-distributions, JCGM 101:2008). The probability of a species at a point is the
+stated uncertainty (``dgf_unc_kj_mol``: the standard uncertainty derived from
+what the row's own source prints, e.g. CODATA key values or an IUPAC review's
+log K interval) or, for a row that states none, a default the user chooses
+(``--uncertainty KJ``, 1 kJ/mol when no value is given; 0 samples only the rows
+with stated uncertainties); the map is solved once per sample (Monte Carlo
+propagation of distributions, JCGM 101:2008). The probability of a species at a point is the
 share of samples in which it is the stable one; a boundary's 95 % band is where
 no species reaches 97.5 % (the central 95 % of the sampled boundary positions
 covers the point). Draws are independent per species: correlations between

@@ -41,8 +41,9 @@ def draw_bands(ax, result, resolution=160):
             zorder=2.5,
         )
     label = (
-        f"95 % band ({len(result.samples)} draws; u(ΔfG°) as stated, "
-        f"else {result.default_uncertainty_kj_mol:g} kJ/mol)"
+        f"95 % band ({len(result.samples)} draws; u(ΔfG°) as the source states it for "
+        f"{result.stated} of {result.perturbed} species, "
+        f"{result.default_uncertainty_kj_mol:g} kJ/mol for the others)"
     )
     ax.text(
         0.99,

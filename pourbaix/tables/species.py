@@ -90,6 +90,7 @@ MAX_ATOMS = 500
 #: of formula units stay below 10^4 J/(mol K) (Robie & Hemingway 1995 tables, by inspection).
 MAGNITUDE = {
     "dgf_kj_mol": 1e5,
+    "dgf_unc_kj_mol": 1e3,
     "dhf_kj_mol": 1e5,
     "s_j_molk": 1e4,
     "cp_j_molk": 1e4,
@@ -188,8 +189,11 @@ class Species:
     dhf_kj_mol : float or None
         Standard enthalpy of formation [kJ/mol].
     dgf_unc_kj_mol : float or None
-        Standard uncertainty of ``dgf_kj_mol`` as the source states it [kJ/mol]
-        (used by :mod:`pourbaix.analyses.uncertainty`).
+        Standard uncertainty of ``dgf_kj_mol`` [kJ/mol], from the uncertainty the row's own
+        source states (CODATA key values, NEA-TDB volumes and the IUPAC reviews print 95 %
+        intervals, about twice the standard uncertainty; the row's note gives the printed
+        values and the propagation); None where the source states none (used by
+        :mod:`pourbaix.analyses.uncertainty`).
     s_j_molk : float or None
         Standard entropy [J/(mol K)].
     cp_j_molk : float or None
@@ -814,6 +818,11 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems) ->
             )
         else:
             values[name] = x
+    if values.get("dgf_unc_kj_mol") is not None and values["dgf_unc_kj_mol"] < 0:
+        add(
+            "dgf_unc_kj_mol",
+            f"dgf_unc_kj_mol {values['dgf_unc_kj_mol']} must be >= 0 (a standard uncertainty)",
+        )
     if phase in ("s", "l", "g"):
         if values.get("s_j_molk") is not None and values["s_j_molk"] <= 0:
             # third law: S(298 K) > 0 for a pure phase (conventional ionic entropies may be < 0)

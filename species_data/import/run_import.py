@@ -1038,6 +1038,8 @@ def _verified_by_crc(header, row, crc) -> list[str]:
     note = values.get("note", "")
     if "from memory" not in note or values.get("source") not in ("NBS82", "CODATA89"):
         return row
+    if "which reprints this compilation" in note:
+        return row  # checked already; a later "from memory" is about something else (e.g. +/-)
     try:
         f = parse_formula(values["formula"])
     except FormulaError:
