@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pourbaix.errors import OptionError
 
-__all__ = ["as_frame"]
+__all__ = ["Tabular", "as_frame"]
 
 
 def as_frame(rows):
@@ -37,3 +37,34 @@ def as_frame(rows):
             '(or pip install "pourbaix[scale]")'
         ) from None
     return pd.DataFrame(list(rows))
+
+
+class Tabular:
+    """What a result with a ``rows()`` method gets for notebooks and pandas.
+
+    ``to_frame()`` gives its rows as a DataFrame, and a notebook shows the
+    result as that table (or as plain text when pandas is not installed).
+    """
+
+    __slots__ = ()
+
+    def to_frame(self):
+        """The result's rows (see ``rows()``) as a pandas DataFrame.
+
+        Returns
+        -------
+        pandas.DataFrame
+            One row per dict of ``rows()``.
+
+        Raises
+        ------
+        OptionError
+            When pandas is not installed (an optional extra).
+        """
+        return as_frame(self.rows())
+
+    def _repr_html_(self):
+        try:
+            return self.to_frame()._repr_html_()
+        except OptionError:
+            return None  # no pandas: the plain text form is shown

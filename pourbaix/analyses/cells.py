@@ -21,6 +21,7 @@ from fractions import Fraction
 
 from pourbaix.constants import F_KJ, LN10
 from pourbaix.errors import ConditionsError, OptionError, ReactionError, UnknownSpeciesError
+from pourbaix.frames import Tabular
 from pourbaix.physics import thermo
 from pourbaix.physics.halfreactions import (
     HalfReaction,
@@ -221,7 +222,7 @@ class SeriesEntry:
 
 
 @dataclass(frozen=True)
-class SeriesResult:
+class SeriesResult(Tabular):
     """A series of reduction potentials at one set of conditions.
 
     Attributes
@@ -1355,7 +1356,7 @@ def butler_volmer(potential_v, rest_potential_v, kinetics: ElectrodeKinetics):
 
 
 @dataclass(frozen=True)
-class MixedPotential:
+class MixedPotential(Tabular):
     """The potential of coupled electrodes at which their currents cancel.
 
     Attributes
@@ -1612,7 +1613,7 @@ class MetalInWater:
 
 
 @dataclass(frozen=True)
-class CoupleResult:
+class CoupleResult(Tabular):
     """Metals coupled in one water.
 
     Attributes

@@ -6,6 +6,7 @@ import math
 from dataclasses import dataclass, field
 
 from pourbaix.errors import OptionError
+from pourbaix.frames import Tabular
 
 __all__ = [
     "BoundaryShift",
@@ -54,7 +55,7 @@ class BoundaryShift:
 
 
 @dataclass
-class MapComparison:
+class MapComparison(Tabular):
     """Boundary-by-boundary comparison of two maps.
 
     Attributes

@@ -29,6 +29,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from pourbaix.errors import ConditionsError, OptionError
+from pourbaix.frames import Tabular
 from pourbaix.solve.envelope import clip_halfplane
 
 __all__ = [
@@ -214,7 +215,7 @@ def _coefficients(model, eff, s, basis):
 
 # ---------------------------------------------------------------------- values
 @dataclass(frozen=True)
-class SolubilityResult:
+class SolubilityResult(Tabular):
     """Solubility of an element at points.
 
     Attributes hold arrays shaped like the broadcast input (scalars for

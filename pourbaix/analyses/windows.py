@@ -16,6 +16,7 @@ from pourbaix.analyses.solubility import (
     solubility_region,
 )
 from pourbaix.errors import ConditionsError, OptionError
+from pourbaix.frames import Tabular
 
 __all__ = [
     "LeachWindow",
@@ -25,7 +26,7 @@ __all__ = [
 
 
 @dataclass
-class LeachWindow:
+class LeachWindow(Tabular):
     """A leach (separation) window and how much room it leaves.
 
     Attributes
@@ -111,6 +112,27 @@ class LeachWindow:
                 "potential_bounds_v": (g.bounds[1], g.bounds[3]),
             }
             for g in parts
+        ]
+
+    def rows(self):
+        """One plain dict per separate part of the window, largest first (none when empty).
+
+        Returns
+        -------
+        list of dict
+            ``part``, ``area_ph_v`` [pH V], ``ph_low``, ``ph_high``, and
+            ``potential_low_v``, ``potential_high_v`` [V vs ``reference``].
+        """
+        return [
+            {
+                "part": k,
+                "area_ph_v": c["area"],
+                "ph_low": float(c["ph_bounds"][0]),
+                "ph_high": float(c["ph_bounds"][1]),
+                f"potential_low_v_vs_{self.reference}": float(c["potential_bounds_v"][0]),
+                f"potential_high_v_vs_{self.reference}": float(c["potential_bounds_v"][1]),
+            }
+            for k, c in enumerate(self.components, 1)
         ]
 
     def contains(self, ph, potential_v):

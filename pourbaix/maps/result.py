@@ -10,6 +10,7 @@ import numpy as np
 
 from pourbaix.conditions import Conditions
 from pourbaix.errors import ConditionsError
+from pourbaix.frames import Tabular
 
 __all__ = [
     "CAUTION",
@@ -127,7 +128,7 @@ class Boundary:
 
 
 @dataclass(frozen=True)
-class ProbeResult:
+class ProbeResult(Tabular):
     """What is stable at given points and how far the nearest boundaries are.
 
     Attributes hold arrays shaped like the broadcast input (scalars for scalar
