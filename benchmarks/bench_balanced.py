@@ -11,15 +11,23 @@ CN 1e-3 mol/kg) over the default window (pH -2..16, -2..2 V):
   number of solves and its time, extrapolated from timing every 20th row of
   the grid with warm starts along each row (the fastest fair way to solve a
   grid with this solver);
-- the ratios. Targets (issue 15): <= 1 s per map, >= 50x fewer solves.
+- the ratios. Targets (issue 15): <= 1 s per map, >= 50x fewer solves;
+- with ``--cli``, the wall time of the issue's three commands as a user runs
+  them (``python -m pourbaix.cli ...`` in a fresh interpreter: imports, table
+  loading, the map or speciation, drawing the PNG), median of the runs.
 No assertions: this prints figures.
 """
 
 from __future__ import annotations
 
 import argparse
+import os
 import statistics
+import subprocess
+import sys
+import tempfile
 import time
+from pathlib import Path
 
 import numpy as np
 
@@ -47,9 +55,50 @@ def _grid_time(system, ph, e, every=20):
     return per_row * len(e)
 
 
+#: The commands of the issue's "Done when" (output file names as there).
+CLI_COMMANDS = (
+    ("map", "Cu", "--total", "Cu=1e-2", "--total", "N=1", "--balance", "--out", "cu-nh3.png"),
+    ("map", "Au", "--total", "Au=1e-5", "--total", "CN=1e-3", "--balance", "--out", "aucn.png"),
+    ("speciation", "Cu", "--total", "N=1", "--potential", "0.2", "--out", "cu-spec.png"),
+)
+
+
+def _cli_times(repeat):
+    """Median wall time of each command in a fresh interpreter (one warm-up run each).
+
+    The package is found from the repository (the commands run there with
+    PYTHONPATH set to it), as in the README's way of running from a clone.
+    """
+    root = Path(__file__).resolve().parent.parent
+    with tempfile.TemporaryDirectory() as out:
+        # run as an installed copy would, with compiled bytecode: a machine that sets
+        # PYTHONDONTWRITEBYTECODE would otherwise recompile our sources on every run
+        env = {k: v for k, v in os.environ.items() if k != "PYTHONDONTWRITEBYTECODE"}
+        env["PYTHONPYCACHEPREFIX"] = str(Path(out) / "pycache")
+        env["PYTHONPATH"] = os.pathsep.join(filter(None, [str(root), env.get("PYTHONPATH")]))
+        for command in CLI_COMMANDS:
+            args = [str(Path(out) / c) if c.endswith(".png") else c for c in command]
+            ts = []
+            for k in range(repeat + 1):
+                t = time.perf_counter()
+                subprocess.run(
+                    [sys.executable, "-m", "pourbaix.cli", *args],
+                    cwd=root,
+                    env=env,
+                    check=True,
+                    capture_output=True,
+                )
+                if k:
+                    ts.append(time.perf_counter() - t)
+            print(
+                f"pourbaix {' '.join(command)}: {statistics.median(ts):.2f} s (median of {repeat})"
+            )
+
+
 def main(argv=None):
     p = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     p.add_argument("--repeat", type=int, default=5, help="runs per figure (median)")
+    p.add_argument("--cli", action="store_true", help="also time the issue's three commands")
     a = p.parse_args(argv)
 
     from pourbaix.maps.balanced import compute_balanced_map
@@ -79,6 +128,8 @@ def main(argv=None):
             f"{grid / m.solves:.0f}x fewer solves, {t_grid / t:.0f}x faster "
             f"(targets: <= 1 s per map, >= 50x fewer solves)"
         )
+    if a.cli:
+        _cli_times(a.repeat)
 
 
 if __name__ == "__main__":

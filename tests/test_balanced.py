@@ -199,6 +199,31 @@ def test_trace_of_a_circle_is_within_tolerance():
     assert np.abs(np.hypot(mids[:, 0], mids[:, 1]) - 1).max() < 5e-4
 
 
+def test_trace_with_gradient_is_within_tolerance_with_fewer_evaluations():
+    # Newton's steps with the exact gradient of x^2 + y^2 - 1 instead of bracketing
+    def classify(x, y):
+        return ("in" if x * x + y * y < 1 else "out"), (x, y)
+
+    def boundary(st, a, b):
+        f = st[0] ** 2 + st[1] ** 2 - 1
+        return f if a == "in" else -f
+
+    def gradient(st, a, b):
+        g = np.array([2 * st[0], 2 * st[1]])
+        return g if a == "in" else -g
+
+    window, tolerance = (-2, 2, -2, 2), (1e-4, 1e-4)
+    plain = trace_domains(classify, boundary, window, mesh=(6, 6), tolerance=tolerance)
+    t = trace_domains(
+        classify, boundary, window, mesh=(6, 6), tolerance=tolerance, gradient=gradient
+    )
+    pts = np.vstack([s[2] for s in t.segments])
+    assert np.abs(np.hypot(pts[:, 0], pts[:, 1]) - 1).max() < 1e-4
+    mids = np.vstack([0.5 * (s[2][1:] + s[2][:-1]) for s in t.segments])
+    assert np.abs(np.hypot(mids[:, 0], mids[:, 1]) - 1).max() < 5e-4
+    assert t.evaluations < plain.evaluations
+
+
 def test_bad_input():
     with pytest.raises(OptionError, match="Xx"):
         compute_balanced_map("Cu", {"Xx": 1.0})

@@ -18,7 +18,13 @@ from scipy.optimize import minimize
 
 from pourbaix.errors import ConditionsError, OptionError, PourbaixError
 from pourbaix.physics.components import build_system, parse_totals
-from pourbaix.solve.equilibrium import EquilibriumError, solve_at, solve_equilibrium
+from pourbaix.solve.equilibrium import (
+    EquilibriumError,
+    energy_derivatives_rt,
+    sensitivity,
+    solve_at,
+    solve_equilibrium,
+)
 from pourbaix.tables.species import load_species
 
 # CODATA 2018 constants
@@ -144,6 +150,47 @@ def test_mass_is_conserved_from_any_start(metal, totals):
             assert resid.max() <= 1e-10
             assert np.all(r.amounts >= 0)
             assert np.all(r.saturation <= 1e-12)  # no solid supersaturated
+
+
+def test_mass_is_conserved_where_a_solid_just_dissolves():
+    # a metal total far below the ligand's (Cu 1e-5, NH3 1 mol/kg): at the potential where the
+    # last copper dissolves, the solid's amount falls to the rounding level of the larger total;
+    # the mass balance of the small one must still hold to 1e-10 (the tolerance)
+    system = build_system("Cu", {"Cu": 1e-5, "N": 1.0})
+    lo, hi = -0.4, 0.0  # Cu(s) present at lo, gone at hi (pH 7.5)
+    cu = system.index("Cu")
+    for _ in range(60):
+        mid = 0.5 * (lo + hi)
+        lo, hi = (mid, hi) if solve_at(system, 7.5, mid).present[cu] else (lo, mid)
+    for e in np.linspace(lo - 2e-9, hi + 2e-9, 41):
+        r = solve_at(system, 7.5, e)
+        resid = np.abs(system.counts.T @ r.amounts - system.totals) / system.totals
+        assert resid.max() <= 1e-10
+        ref = gibbs_minimum(
+            system.counts, mu_over_rt(system, 7.5, e), system.aqueous, system.totals
+        )
+        np.testing.assert_allclose(r.amounts, ref, rtol=1e-8, atol=1e-14)
+
+
+@pytest.mark.parametrize("ph,e", [(9.5, 0.5), (6.0, 1.0), (12.5, 0.0), (5.0, 0.25)])
+def test_sensitivity_matches_central_differences(ph, e):
+    # the implicit-function derivatives (no solid, CuO, CuO, Cu2O present at these points)
+    # against central differences of amounts that test_amounts_match_... checks against scipy
+    system = build_system("Cu", {"Cu": 1e-2, "N": 1.0})
+    derivatives = energy_derivatives_rt(system)
+    r = solve_at(system, ph, e)
+    dlam, dlog = sensitivity(system, r, derivatives)
+    h = 1e-6
+    for j, (dx, dy) in enumerate([(h, 0.0), (0.0, h)]):
+        up, down = solve_at(system, ph + dx, e + dy), solve_at(system, ph - dx, e - dy)
+
+        def logs(res):
+            return np.where(system.aqueous, np.log(np.maximum(res.amounts, 1e-300)), res.amounts)
+
+        np.testing.assert_allclose(dlam[:, j], (up.log_free - down.log_free) / (2 * h), atol=1e-6)
+        held = r.amounts > 1e-20
+        fd = (logs(up) - logs(down)) / (2 * h)
+        np.testing.assert_allclose(dlog[held, j], fd[held], rtol=1e-6, atol=1e-6)
 
 
 def test_phase_rule_at_most_one_solid_per_component():

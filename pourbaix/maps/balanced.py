@@ -192,14 +192,39 @@ def _boundary_value(system, result, key_a, key_b):
         return math.log(max(m[key_b[1]], 1e-300)) - math.log(max(m[key_a[1]], 1e-300))
     sa = set(key_a[1]) if key_a[0] == "solid" else set()
     sb = set(key_b[1]) if key_b[0] == "solid" else set()
+    replace = bool(sa - sb) and bool(sb - sa)
 
     def g(q):  # amount (as a share of the component total) if present, else ln(saturation)
-        if result.present[q]:
+        if result.present[q] and not replace:
             j = int(np.argmax(system.counts[q] > 0))
             return result.amounts[q] * system.counts[q, j] / system.totals[j]
+        # one solid replacing another: the amounts jump there, the saturations do not
         return result.saturation[q] * math.log(10.0)
 
     return sum(g(q) for q in sb - sa) - sum(g(q) for q in sa - sb)
+
+
+def _boundary_gradient(system, result, key_a, key_b, derivatives):
+    """(d/dpH, d/dE) of :func:`_boundary_value` at a point, by the implicit-function theorem."""
+    from pourbaix.solve.equilibrium import sensitivity
+
+    dlam, dlog = sensitivity(system, result, derivatives)
+    if key_a[0] == "aq" and key_b[0] == "aq":
+        return dlog[key_b[1]] - dlog[key_a[1]]
+    sa = set(key_a[1]) if key_a[0] == "solid" else set()
+    sb = set(key_b[1]) if key_b[0] == "solid" else set()
+    replace = bool(sa - sb) and bool(sb - sa)
+
+    def dg(q):  # derivative of g in _boundary_value
+        if result.present[q]:
+            if replace:
+                return np.zeros(2)  # saturated: ln(saturation) stays 0
+            j = int(np.argmax(system.counts[q] > 0))
+            return dlog[q] * system.counts[q, j] / system.totals[j]
+        return system.counts[q] @ dlam - derivatives[q]
+
+    zero = np.zeros(2)
+    return sum((dg(q) for q in sb - sa), zero) - sum((dg(q) for q in sa - sb), zero)
 
 
 def _names(system, key):
@@ -323,7 +348,7 @@ def compute_balanced_map(
     from pourbaix.conditions import make_conditions, parse_elements
     from pourbaix.physics import energies
     from pourbaix.physics.components import build_system, parse_totals
-    from pourbaix.solve.equilibrium import solve_at
+    from pourbaix.solve.equilibrium import energy_derivatives_rt, solve_at
     from pourbaix.solve.trace import trace_domains
     from pourbaix.tables.species import load_species
 
@@ -400,12 +425,14 @@ def compute_balanced_map(
         state["max_i"] = max(state["max_i"], r.ionic_strength)
         return point_key(system, r), r
 
+    derivatives = energy_derivatives_rt(system, conditions.reference_slope_v_per_ph)
     traced = trace_domains(
         solve,
         lambda r, a, b: _boundary_value(system, r, a, b),
         conditions.window,
         mesh=mesh,
         tolerance=(tol_ph, tol_v),
+        gradient=lambda r, a, b: _boundary_gradient(system, r, a, b, derivatives),
     )
     x0, x1, y0, y1 = conditions.window
     lines = [LineString(pts) for _, _, pts in traced.segments if len(pts) >= 2]

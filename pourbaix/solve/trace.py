@@ -31,6 +31,7 @@ b's); this module knows nothing of chemistry.
 
 from __future__ import annotations
 
+import bisect
 import math
 from dataclasses import dataclass
 
@@ -59,10 +60,16 @@ class TracedCurves:
     evaluations: int
 
 
+def _between(values, lo, hi):
+    """The items v of a sorted list with lo <= v < hi."""
+    return values[bisect.bisect_left(values, lo) : bisect.bisect_left(values, hi)]
+
+
 class _Tracer:
-    def __init__(self, classify, boundary, window, mesh, depth, tolerance):
+    def __init__(self, classify, boundary, window, mesh, depth, tolerance, gradient=None):
         self.classify_fn = classify
         self.boundary_fn = boundary
+        self.gradient_fn = gradient
         self.x0, self.x1, self.y0, self.y1 = window
         self.nx, self.ny = mesh
         self.depth = depth
@@ -71,8 +78,8 @@ class _Tracer:
         self.dx = (self.x1 - self.x0) / (self.nx * self.scale)
         self.dy = (self.y1 - self.y0) / (self.ny * self.scale)
         self.grid = {}  # (ci, cj) -> (key, state)
-        self.rows = {}  # cj -> set of ci sampled
-        self.cols = {}  # ci -> set of cj sampled
+        self.rows = {}  # cj -> sorted list of ci sampled
+        self.cols = {}  # ci -> sorted list of cj sampled
         self.edge_points = {}  # ((ci, cj), (ci, cj)) -> list of (point, key_left, key_right)
         self.evaluations = 0
 
@@ -89,8 +96,8 @@ class _Tracer:
         if got is None:
             got = self.classify(*self.xy(ci, cj))
             self.grid[(ci, cj)] = got
-            self.rows.setdefault(cj, set()).add(ci)
-            self.cols.setdefault(ci, set()).add(cj)
+            bisect.insort(self.rows.setdefault(cj, []), ci)
+            bisect.insort(self.cols.setdefault(ci, []), cj)
         return got
 
     def key(self, ci, cj):
@@ -101,10 +108,10 @@ class _Tracer:
         """Sampled points around a cell, counter-clockwise from its lower-left corner."""
         for c in ((ci, cj), (ci + s, cj), (ci + s, cj + s), (ci, cj + s)):
             self.at(*c)
-        bottom = sorted(i for i in self.rows.get(cj, ()) if ci <= i < ci + s)
-        right = sorted(j for j in self.cols.get(ci + s, ()) if cj <= j < cj + s)
-        top = sorted((i for i in self.rows.get(cj + s, ()) if ci < i <= ci + s), reverse=True)
-        left = sorted((j for j in self.cols.get(ci, ()) if cj < j <= cj + s), reverse=True)
+        bottom = _between(self.rows[cj], ci, ci + s)  # ci <= i < ci + s
+        right = _between(self.cols[ci + s], cj, cj + s)
+        top = _between(self.rows[cj + s], ci + 1, ci + s + 1)[::-1]  # ci < i <= ci + s
+        left = _between(self.cols[ci], cj + 1, cj + s + 1)[::-1]
         return (
             [(i, cj) for i in bottom]
             + [(ci + s, j) for j in right]
@@ -153,24 +160,55 @@ class _Tracer:
                 min(self.tol[0] / d[0] if d[0] else np.inf, self.tol[1] / d[1] if d[1] else np.inf)
             )
 
+    def _step(self, state, value, key_a, key_b, direction):
+        """Newton step -f / (grad f . direction) from a solved point, or None."""
+        if not math.isfinite(value):
+            return None
+        g = self.gradient_fn(state, key_a, key_b)
+        slope = g[0] * direction[0] + g[1] * direction[1]
+        if not (math.isfinite(slope) and slope > 0):
+            return None  # f rises from key_a to key_b; anything else: no Newton step here
+        return -value / slope
+
     def crossings(self, p, kp, sp, q, kq, sq, depth=0):
         """Boundary points on the segment p -> q (keys differ), as (point, key_before, key_after)."""
         tol_t = self._t_tolerance(p, q)
         lo, hi = 0.0, 1.0
         flo = self.boundary_fn(sp, kp, kq)
         fhi = self.boundary_fn(sq, kp, kq)
+        seg = (q[0] - p[0], q[1] - p[1])
+        newton = None  # where Newton's method puts the root from the last point solved
+        if self.gradient_fn is not None:
+            # from the end whose own Newton step is the shorter
+            steps = [self._step(sp, flo, kp, kq, seg), self._step(sq, fhi, kp, kq, seg)]
+            starts = [
+                (abs(d), t + d) for t, d in zip((0.0, 1.0), steps, strict=True) if d is not None
+            ]
+            if starts:
+                newton = min(starts)[1]
         moved = 0  # which end moved last: -1 lo, +1 hi
         it = 0
         while hi - lo > tol_t and it < 80:
             it += 1
             t = 0.5 * (lo + hi)
-            if flo < 0 < fhi and math.isfinite(flo) and math.isfinite(fhi) and it % 4:
+            if newton is not None and lo < newton < hi:
+                t = newton
+            elif flo < 0 < fhi and math.isfinite(flo) and math.isfinite(fhi) and it % 4:
                 t = lo + (hi - lo) * (-flo) / (fhi - flo)  # regula falsi
                 # just past the estimate on the side that has not moved, to close the bracket
                 t += 0.45 * tol_t if moved == -1 else -0.45 * tol_t if moved == 1 else 0.0
                 t = min(max(t, lo + 0.25 * tol_t), hi - 0.25 * tol_t)
+            newton = None
             x = (p[0] + t * (q[0] - p[0]), p[1] + t * (q[1] - p[1]))
             k, st = self.classify(*x)
+            if k in (kp, kq) and self.gradient_fn is not None:
+                f = self.boundary_fn(st, kp, kq)
+                d = self._step(st, f, kp, kq, seg)
+                if d is not None and abs(d) <= 0.1 * tol_t:
+                    # Newton's step has fallen below a tenth of the tolerance: converged
+                    t = min(max(t + d, lo), hi)
+                    return [((p[0] + t * (q[0] - p[0]), p[1] + t * (q[1] - p[1])), kp, kq)]
+                newton = None if d is None else t + d
             if k == kp:
                 lo, flo = t, self.boundary_fn(st, kp, kq)
                 if moved == -1:
@@ -233,8 +271,22 @@ class _Tracer:
         def inside(x):
             return self.x0 <= x[0] <= self.x1 and self.y0 <= x[1] <= self.y1
 
-        # corrector, first try: a secant along the normal from mid predicts the curve
         fm = self.boundary_fn(sm, ka, kb)
+        if self.gradient_fn is not None:
+            got = self._newton_normal(mid, sm, fm, n, length, ka, kb, along, inside)
+            if got == "near" or got == "other":
+                return []  # within tolerance of the chord, or another domain comes close
+            if got is not None:
+                r = got
+                dev = math.hypot((r[0] - mid[0]) / self.tol[0], (r[1] - mid[1]) / self.tol[1])
+                if dev <= 1.0:
+                    return []
+                return (
+                    self.refine(p, r, ka, kb, level + 1)
+                    + [r]
+                    + self.refine(r, q, ka, kb, level + 1)
+                )
+        # corrector, first try: a secant along the normal from mid predicts the curve
         probe = along(2.0)
         found = None
         if inside(probe) and math.isfinite(fm):
@@ -279,6 +331,36 @@ class _Tracer:
             return []
         return self.refine(p, r, ka, kb, level + 1) + [r] + self.refine(r, q, ka, kb, level + 1)
 
+    def _newton_normal(self, mid, state, value, normal, length, ka, kb, along, inside):
+        """Corrector: Newton's method for the curve along the chord's normal through its midpoint.
+
+        Returns the curve point, "near" if the first step shows the curve within half a
+        tolerance of the midpoint, "other" if a third domain is met, or None (no
+        convergence: the caller falls back to bracketing).
+        """
+        # direction of one tolerance unit along the normal, in (pH, V)
+        direction = (normal[0] * self.tol[0], normal[1] * self.tol[1])
+        d, st, f = 0.0, state, value
+        for it in range(6):
+            g = self.gradient_fn(st, ka, kb)
+            slope = g[0] * direction[0] + g[1] * direction[1]
+            if not (math.isfinite(slope) and math.isfinite(f)) or slope == 0:
+                return None
+            dd = -f / slope
+            if it == 0 and abs(dd) <= 0.5:
+                return "near"
+            d += dd
+            if it and abs(dd) <= 0.1:  # the step is a tenth of the tolerance: converged
+                return along(d)
+            x = along(d)
+            if abs(d) > 0.5 * length or not inside(x):
+                return None
+            k, st = self.classify(*x)
+            if k not in (ka, kb):
+                return "other"
+            f = self.boundary_fn(st, ka, kb)
+        return None
+
     def junction(self, crossings, cell):
         """Point where three domains meet: Newton on two boundary functions (2 x 2)."""
         keys = []
@@ -296,13 +378,18 @@ class _Tracer:
 
         def F(pt):
             st = self.classify(*pt)[1]
-            return np.array([self.boundary_fn(st, a, b), self.boundary_fn(st, b, c)])
+            return np.array([self.boundary_fn(st, a, b), self.boundary_fn(st, b, c)]), st
 
         for _ in range(8):
-            f0 = F(p)
+            f0, st = F(p)
             if not np.all(np.isfinite(f0)):
                 return tuple(guess)
-            jac = np.column_stack([(F(p + [hx, 0.0]) - f0) / hx, (F(p + [0.0, hy]) - f0) / hy])
+            if self.gradient_fn is not None:
+                jac = np.array([self.gradient_fn(st, a, b), self.gradient_fn(st, b, c)], float)
+            else:  # finite differences
+                jac = np.column_stack(
+                    [(F(p + [hx, 0.0])[0] - f0) / hx, (F(p + [0.0, hy])[0] - f0) / hy]
+                )
             try:
                 dp = np.linalg.solve(jac, -f0)
             except np.linalg.LinAlgError:
@@ -338,7 +425,16 @@ class _Tracer:
         return TracedCurves(segments, samples, self.evaluations)
 
 
-def trace_domains(classify, boundary, window, *, mesh=(24, 24), depth=6, tolerance=(1e-3, 1e-4)):
+def trace_domains(
+    classify,
+    boundary,
+    window,
+    *,
+    mesh=(24, 24),
+    depth=6,
+    tolerance=(1e-3, 1e-4),
+    gradient=None,
+):
     """Trace the boundaries between the domains of a classification of the plane.
 
     Parameters
@@ -357,6 +453,12 @@ def trace_domains(classify, boundary, window, *, mesh=(24, 24), depth=6, toleran
         Largest number of halvings of a coarse cell near junctions.
     tolerance : (float, float)
         Accuracy of boundary points along pH and along E [-, V].
+    gradient : callable, optional
+        ``gradient(state, key_a, key_b) -> (df/dpH, df/dE)`` of ``boundary`` at a
+        classified point. With it, crossings and the corrector take Newton steps
+        (stopping when a step is below a tenth of the tolerance) instead of
+        bracketing, and junctions use it as their Jacobian; where Newton's method
+        leaves its bracket or meets a third domain, bracketing takes over.
 
     Returns
     -------
@@ -389,5 +491,11 @@ def trace_domains(classify, boundary, window, *, mesh=(24, 24), depth=6, toleran
     """
     nx, ny = (int(v) for v in mesh)
     return _Tracer(
-        classify, boundary, tuple(float(v) for v in window), (nx, ny), int(depth), tolerance
+        classify,
+        boundary,
+        tuple(float(v) for v in window),
+        (nx, ny),
+        int(depth),
+        tolerance,
+        gradient,
     ).run()
