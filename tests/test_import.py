@@ -94,9 +94,32 @@ def test_every_imported_value_equals_its_source(run_import):
             crc[row["CAS"]] = row
     rows = _imported_rows()
     assert len(rows) > 500
-    counted = {"llnl": 0, "supcrt": 0, "crc": 0}
+    counted = {"llnl": 0, "supcrt": 0, "crc": 0, "thermoddem": 0, "log K": 0}
     for where, row in rows:
         note = row["note"]
+        if " Thermoddem PHREEQC_ThermoddemV1.10_15Dec2020.dat phase " in note:
+            counted["thermoddem"] += 1
+            name = re.search(r"phase '([^']+)'", note).group(1)
+            reaction, log_k = _thermoddem_printed(run_import, name)
+            assert float(row["dgf_kj_mol"]) == pytest.approx(
+                _gibbs_from_log_k(reaction, log_k), abs=1e-6
+            ), where
+            continue
+        if " LLNL thermo.com.dat entry " in note and "dG converted from the entry's log K" in note:
+            counted["log K"] += 1
+            name = re.search(r"entry '([^']+)'", note).group(1)
+            numbers = re.search(
+                r"species in reaction\n(.*?)\n\s*([-\d.]+)\s+([-\d.]+)", llnl[name], re.S
+            )
+            pairs = numbers.group(1).split()
+            reaction = [
+                (float(c), _llnl_name(n)) for c, n in zip(pairs[0::2], pairs[1::2], strict=True)
+            ]
+            assert float(row["dgf_kj_mol"]) == pytest.approx(
+                _gibbs_from_log_k(reaction, float(numbers.group(3))), abs=1e-6
+            ), where
+            assert row["dhf_kj_mol"] == row["s_j_molk"] == "", where
+            continue
         if " LLNL thermo.com.dat entry " in note:
             counted["llnl"] += 1
             name = re.search(r"entry '([^']+)'", note).group(1)
@@ -136,7 +159,55 @@ def test_every_imported_value_equals_its_source(run_import):
                 assert float(row["s_j_molk"]) == float(src["S0s"]), where
         else:
             pytest.fail(f"{where}: imported row names no source file")
-    assert all(n > 5 for n in counted.values()), counted
+    assert all(n > 5 for k, n in counted.items() if k not in ("thermoddem", "log K")), counted
+    assert counted["thermoddem"] >= 2 and counted["log K"] >= 5, counted
+
+
+def _thermoddem_printed(run_import, name):
+    """(coefficient, species) of a Thermoddem phase's reaction (reactants negative) and log_k."""
+    text = (run_import.pygcc_db() / "PHREEQC_ThermoddemV1.10_15Dec2020.dat").read_text(
+        encoding="latin-1"
+    )
+    start = text.index("\nPHASES\n")
+    m = re.search(r"\n" + re.escape(name) + r"\n(.*) = (.*)\n\s*log_k\s+(\S+)", text[start:])
+    pairs = []
+    for side, sign in ((m.group(1), -1), (m.group(2), 1)):
+        for term in side.split(" + ")[(1 if sign < 0 else 0) :]:
+            c, n = re.match(r"([\d.]+)(\S+)", term.strip()).groups()
+            pairs.append((sign * float(c), _thermoddem_name(n)))
+    return pairs, float(m.group(3))
+
+
+def _thermoddem_name(name):
+    if name == "H2O":
+        return "H2O", "l"
+    m = re.match(r"^(.*?)([+-])(\d*)$", name)
+    return f"{m.group(1)}^{m.group(3)}{m.group(2)}", "aq"
+
+
+def _llnl_name(name):
+    if name == "H2O":
+        return "H2O", "l"
+    m = re.match(r"^(.*?)([+-]+)$", name)
+    n = len(m.group(2))
+    return f"{m.group(1)}^{'' if n == 1 else n}{m.group(2)[0]}", "aq"
+
+
+def _gibbs_from_log_k(reaction, log_k):
+    """dG of the solid or complex dissolved by ``reaction`` (products positive) [kJ/mol].
+
+    dG(species) = sum(nu dG(products)) + RT ln10 log K, with the tables' values of the other
+    species (the dissociation reaction as both files print it; H+ is zero by convention).
+    """
+    from pourbaix.tables.species import load_species
+
+    table = load_species()
+    rt_ln10 = 8.314462618 * 298.15 * math.log(10) / 1000  # [kJ/mol] (CODATA 2018 R)
+    total = rt_ln10 * log_k
+    for c, (name, phase) in reaction:
+        if name != "H^+":
+            total += c * table.get(name, phase).dgf_kj_mol
+    return total
 
 
 def test_left_out_entries_disagree_with_their_own_log_k(run_import, built):

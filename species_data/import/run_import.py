@@ -55,6 +55,7 @@ sys.path.insert(0, str(HERE.parents[1]))
 
 from llnl_file import read_llnl, read_llnl_references  # noqa: E402
 from supcrt_file import NO_VALUE, read_supcrt, read_supcrt_references  # noqa: E402
+from thermoddem_file import read_thermoddem_phases, read_thermoddem_references  # noqa: E402
 
 from pourbaix.errors import FormulaError  # noqa: E402
 from pourbaix.tables.formula import parse_formula  # noqa: E402
@@ -145,6 +146,47 @@ ADDITIONS = (
     "Sellaite",
 )
 ADDITIONS_STEM = "additions"
+# LLNL entries whose value contradicts the solubility measured by the original study: the
+# Thermoddem file shipped by pygcc prints that study's log K, read instead and converted to dG
+# with the values of these tables for the other species of its reaction.
+# LLNL name -> (Thermoddem phase, code the file prints, code cited, why)
+THERMODDEM_FILE = "PHREEQC_ThermoddemV1.10_15Dec2020.dat"
+FROM_THERMODDEM = {
+    "PbHPO4": (
+        "PbHPO4",
+        "74nri",
+        "74nri",
+        "Nriagu's measured solubility replaces the NBS82 value of the LLNL file, which made "
+        "PbHPO4 the stable lead solid of neutral phosphate waters; the lead phosphates of these "
+        "tables all come from Nriagu's studies (1972-1974)",
+    ),
+    "Jarosite": (
+        "Jarosite(K)",
+        "96abar/pal",
+        "96bbar/pal",
+        "Baron & Palmer's solubility measurement replaces the older value of Kashkay et al. 1975 "
+        "(LLNL); the Thermoddem file prints code 96abar/pal, which its reference list gives to "
+        "the same authors' paper on the chromate analogue: the value is that of their jarosite "
+        "paper (96bbar/pal)",
+    ),
+}
+# reference codes of studies that report equilibrium constants: an addition from such a study
+# takes its dG from the entry's log K at 25 C with these tables' values of the reaction's other
+# species, when those differ from the file's by more than 1 kJ/mol in all (the file derived the
+# dG from the constant with its own values; iron(II) and iron(III) differ by 12.6 kJ/mol)
+LOGK_CODES = ("76smi/mar", "82hog", "79lan", "72nri 1", "75kas/bor", "79mat/spo", "89mar/smi")
+# LLNL minerals given our formula text and form: the file's formula line misses an element, or
+# its name is not the mineral's name (LLNL name -> formula, form, why)
+MINERAL_NAMES = {
+    "Pyromorphite-OH": ("Pb5(PO4)3OH", "hydroxypyromorphite", ""),
+    "Pyromorphite": ("Pb5(PO4)3Cl", "chloropyromorphite", ""),
+    "Jarosite-Na": (
+        "NaFe3(SO4)2(OH)6",
+        "natrojarosite",
+        "; the file's formula line reads Fe3(SO4)2(OH)6 (no Na); the entry's name and reaction "
+        "(1 Na+) give NaFe3(SO4)2(OH)6",
+    ),
+}
 
 # reference codes that are already keys of the hand-typed tables
 SAME_AS = {"82wag/eva": "NBS82", "89cox/wag": "CODATA89", "76bae/mes": "BM76"}
@@ -205,6 +247,26 @@ K_NOTES = {
     ("SrSO4:celestite", "s"): (
         "; gives log Ksp = -5.66 where Reardon & Armstrong 1987 measured -6.63: the file's Sr^2+ "
         "(see its note) and celestite values disagree with the measured solubility; kept, as read"
+    ),
+    ("Pb5(PO4)3OH:hydroxypyromorphite", "s"): (
+        "; gives log Ksp(Pb5(PO4)3OH = 5Pb2+ + 3PO4^3- + OH-) = -76.76 with these tables, "
+        "Nriagu's -76.8 (tests/test_lead_phosphate.py). The Thermoddem file (pygcc) prints for "
+        "the same solid (reference 74nri) log K -18.12 for Pb5(PO4)3OH + 7H+ = 5Pb2+ + 3H2PO4- + "
+        "H2O, where this value gives -4.19: 13.9 units apart, the size of log Kw, as if the "
+        "constant had been written with H2O in place of OH-; with it, chloropyromorphite would "
+        "give way to hydroxypyromorphite below 0.2 mol/kg chloride at pH 7, against Nriagu's "
+        "finding that chloropyromorphite is the stable lead phosphate wherever chloride is "
+        "present; not used"
+    ),
+    ("Pb3(PO4)2", "s"): (
+        "; gives log Ksp(Pb3(PO4)2 = 3Pb2+ + 2PO4^3-) = -44.33 with these tables (Thermoddem, "
+        "reference 74nri: -5.48 for Pb3(PO4)2 + 4H+ = 3Pb2+ + 2H2PO4-, against -5.28 here). With "
+        "these values Pb3(PO4)2 holds the lead map between about pH 5.2 and 8.5 at 1e-4 total "
+        "phosphate, and hydroxypyromorphite takes over above; pipe scales of orthophosphate-dosed "
+        "waters are usually reported as hydroxypyromorphite (recalled from the lead-control "
+        "literature, not a tabulated value), so read the "
+        "Pb3(PO4)2 field as uncertain: --exclude Pb3(PO4)2 shows where hydroxypyromorphite "
+        "would reach"
     ),
     ("CaF2:fluorite", "s"): (
         "; with the CODATA F^- of this table gives log Ksp = -10.04 where Nordstrom & Jenne 1977 "
@@ -709,10 +771,14 @@ def _with_parameters(header: list[str], rows: list[list[str]], index, transition
     return cols, out
 
 
+_LLNL_ENTRIES: list = []  # entries of the LLNL file, set by build()
+
+
 def build(species_dir: Path) -> tuple[dict[str, str], str]:
     """Return {file name: text} of the generated tables and the import report."""
     path = pygcc_db() / LLNL_FILE
     entries = read_llnl(path)
+    _LLNL_ENTRIES[:] = entries
     refs = read_llnl_references(path)
     mismatch = llnl_checks(entries)
     report = [f"import report: {path.name}, {len(entries)} entries"]
@@ -725,6 +791,8 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
     hydrates: dict[tuple, str] = {}
     crc_ions = _read_crc_ions(crc_ions_file())
     entropies = element_entropies(_read_crc(crc_solids_file()))
+
+    gibbs_now: list[dict] = [{}]  # dG of the tables, read once the element tables are built
 
     def accept(entry, stem) -> None:
         if entry.section in ("gases", "oxides") or not entry.value("delG0f"):
@@ -740,6 +808,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
         except FormulaError:
             report.append(f"left out {entry.name}: formula not read")
             return
+        text, form, renamed = MINERAL_NAMES.get(entry.name, (text, form, ""))
         f = parse_formula(text)
         if not balanced(entry, f, entries_by_name):
             report.append(f"left out {entry.name}: its formula does not balance its reaction")
@@ -750,7 +819,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
         if phase == "aq" and entry.charge is not None and f.charge != round(entry.charge):
             report.append(f"left out {entry.name}: charge {entry.charge} against {f.charge}")
             return
-        extra = ""
+        extra = renamed
         printed = entry
         g = entry.value("delG0f")
         off = mismatch.get(entry.name, 0.0)
@@ -762,7 +831,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
             # printed in kcal/mol but labelled kJ/mol: the entry's log K settles it
             printed = entry
             entry = relabel_kcal(entry)
-            extra = (
+            extra += (
                 "; the file labels these numbers kJ but they are kcal (the entry's own log K at "
                 f"25 C agrees with kcal within {abs(off + float(g[0]) * (KCAL - 1)):.2f} kJ/mol)"
             )
@@ -787,6 +856,8 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
             hydrates[water_signature(f)] = text
         used_codes.add(entry.source)
         row = _row(entry, text, phase, form, source_key(entry.source), extra, printed)
+        if stem == ADDITIONS_STEM and entry.source in LOGK_CODES:
+            row = _from_logk(row, entry, gibbs_now[0])
         row[-1] += crc_remark(f, phase, float(row[3]), crc_ions)
 
         tables[stem].append(row)
@@ -804,8 +875,17 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
                 # a species goes to the table of its first new element in NEW_ELEMENTS order
                 accept(entry, owner)
     by_name = {e.name: e for e in entries}
+    gibbs_now[0] = _table_gibbs(species_dir, generated, tables)
+    thermoddem = read_thermoddem_phases(pygcc_db() / THERMODDEM_FILE)
+    thermoddem_refs = read_thermoddem_references(pygcc_db() / THERMODDEM_FILE)
+    thermoddem_used: set[str] = set()
     for name in ADDITIONS:
-        if name in by_name:
+        if name in FROM_THERMODDEM:
+            row = _thermoddem_row(by_name[name], FROM_THERMODDEM[name], thermoddem, gibbs_now[0])
+            tables[ADDITIONS_STEM].append(row)
+            thermoddem_used.add(FROM_THERMODDEM[name][2])
+            report.append(f"replaced {name}: log K of Thermoddem phase {FROM_THERMODDEM[name][0]}")
+        elif name in by_name:
             accept(by_name[name], ADDITIONS_STEM)
         else:
             report.append(f"addition {name}: not in the file")
@@ -977,6 +1057,15 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
                 "species_data/import/run_import.py",
             ]
         )
+    for code in sorted(thermoddem_used):
+        writer.writerow(
+            [
+                code,
+                thermoddem_refs[code],
+                f"reference {code} of the Thermoddem file {THERMODDEM_FILE}; values read by "
+                "species_data/import/run_import.py",
+            ]
+        )
     writer.writerow([CRC_KEY, CRC_CITATION, "values read by the import"])
     out["sources_imported.csv"] = src.getvalue()
     for stem in sorted(tables):
@@ -1077,6 +1166,95 @@ def _verified_by_crc(header, row, crc) -> list[str]:
         1,
     )
     return [values[c] for c in header]
+
+
+def thermoddem_species(name: str) -> tuple[str, str]:
+    """Our (formula text, phase) for a species of a Thermoddem reaction (``Fe+3``, ``H2O``)."""
+    if name == "H2O":
+        return "H2O", "l"
+    m = re.match(r"^(.*?)([+-])(\d*)$", name)
+    return parse_formula(f"{m.group(1)}^{m.group(3)}{m.group(2)}" if m else name).text, "aq"
+
+
+def _table_gibbs(species_dir: Path, generated: set[str], tables: dict) -> dict:
+    """Gibbs energies [kJ/mol] by (formula, phase) of the hand tables and rows generated so far."""
+    out = {}
+    for f in sorted(species_dir.glob("*.csv")):
+        if f.stem in generated or f.name.startswith("sources") or f.name == "datasets.csv":
+            continue
+        with f.open(newline="", encoding="utf-8") as handle:
+            for row in csv.DictReader(handle):
+                if not row.get("form"):
+                    out[(parse_formula(row["formula"]).text, row["phase"])] = row["dgf_kj_mol"]
+    for rows in tables.values():
+        for row in rows:
+            if not row[2]:
+                out.setdefault((row[0], row[1]), row[3])
+    return out
+
+
+def llnl_species(name: str) -> tuple[str, str]:
+    """Our (formula text, phase) for a species of an LLNL reaction (``Fe+++``, ``H2O``)."""
+    return ("H2O", "l") if name == "H2O" else (formula_text(name, "aqueous species", "")[0], "aq")
+
+
+def _from_logk(row: list[str], entry, gibbs: dict) -> list[str]:
+    """The row with dG from the entry's log K at 25 C and these tables' reaction species.
+
+    Unchanged when those species differ from the file's values by 1 kJ/mol or less in all.
+    """
+    file_g = {e.name: e for e in _LLNL_ENTRIES}
+    shift, total, used = 0.0, RT_LN10 * float(entry.logk[1]), []
+    for coefficient, name in entry.reaction:
+        key = llnl_species(name)
+        if key == ("H^+", "aq"):
+            continue
+        ours = float(gibbs[key])
+        total += float(coefficient) * ours
+        shift += float(coefficient) * (ours - to_kj(*file_g[name].value("delG0f")))
+        used.append(f"dG({key[0]}) {gibbs[key]}")
+    if abs(shift) <= 1.0:
+        return row
+    out = list(row)
+    out[3] = fmt(total)
+    out[4] = out[5] = ""
+    out[-1] += (
+        f"; dG converted from the entry's log K at 25 C ({entry.logk[1]}; {entry.source} reports "
+        f"equilibrium constants) with {', '.join(used)} of these tables, as the file's values of "
+        f"these species differ by {shift:+.1f} kJ/mol in all (the printed delG0f would shift the "
+        f"constant by {-shift / RT_LN10:+.2f}); dH and S left out with it"
+    )
+    return out
+
+
+def _thermoddem_row(entry, choice, phases, gibbs) -> list[str]:
+    """Row of an LLNL mineral from the log K the Thermoddem file prints for it."""
+    phase_name, printed_code, cited, why = choice
+    phase = phases[phase_name]
+    if phase.source != printed_code:
+        raise SystemExit(f"Thermoddem {phase_name}: reference {phase.source}, not {printed_code}")
+    text, _, form = formula_text(entry.name, entry.section, entry.formula)
+    text, form, _ = MINERAL_NAMES.get(entry.name, (text, form, ""))
+    used = []
+    total = RT_LN10 * float(phase.logk)
+    for sign, side in ((1, phase.products), (-1, phase.reactants)):
+        for coefficient, name in side:
+            key = thermoddem_species(name)
+            value = 0.0 if key == ("H^+", "aq") else float(gibbs[key])
+            total += sign * float(coefficient) * value
+            if key != ("H^+", "aq"):
+                used.append(f"dG({key[0]}) {gibbs[key]}")
+    reaction = " + ".join([phase.formula] + [f"{c}{n}" for c, n in phase.reactants])
+    reaction += " = " + " + ".join(f"{c}{n}" for c, n in phase.products)
+    old = to_kj(*entry.value("delG0f"))
+    note = (
+        f"read by species_data/import from Thermoddem {THERMODDEM_FILE} phase '{phase_name}' "
+        f"({reaction}, log_k {phase.logk}; reference code {phase.source}), converted to dG with "
+        f"{', '.join(used)} of these tables; {why}: the LLNL entry '{entry.name}' (reference "
+        f"code {entry.source}, delG0f {' '.join(entry.value('delG0f'))}) gives log K "
+        f"{float(phase.logk) + (old - total) / RT_LN10:.2f} for this reaction with these tables"
+    )
+    return [text, "s", form, fmt(total), "", "", "", "", "", "", "", "", "", cited, note]
 
 
 def _csv_text(header, rows) -> str:
