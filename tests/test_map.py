@@ -130,12 +130,13 @@ def test_copper_lines_and_immunity(table):
 def test_zinc_is_amphoteric():
     """Common practice: zinc dissolves at low and high pH and is solid near pH 9-10.
 
-    At 1e-6 with every hydrolysis species of our tables the neutral complex
-    Zn(OH)2(aq) (Baes & Mesmer 1976, log *beta2 = -16.9) exceeds 1e-6 over
-    ZnO, so the solid field appears at 1e-5; at 1e-6 it appears with the
-    species set the Atlas used (no neutral complex).
+    With the IUPAC review's constants (Powell et al. 2013) the neutral complex
+    Zn(OH)2(aq) stays below 1e-6 over ZnO (log K = -6.70), so the solid field
+    shows at 1e-6 with every hydrolysis species, as it does at 1e-5 and with
+    the species set the Atlas used (no neutral complex).
     """
     for m in (
+        compute_map("Zn", activity=1e-6),
         compute_map("Zn", activity=1e-5),
         compute_map("Zn", activity=1e-6, exclude=["Zn(OH)2(aq)"]),
     ):

@@ -527,10 +527,10 @@ def test_report_in_headless_chromium(tmp_path):
 
 
 def test_report_warns_when_no_solid_compound_shows(tmp_path):
-    # zinc at 1e-6: ZnO + H2O = Zn(OH)2(aq) has log K = 11.15 - 16.9 (Baes & Mesmer 1976, from
-    # memory), so ZnO needs about 1.8e-6 to show; the report says so among its warnings
+    # zinc at 1e-7: ZnO + H2O = Zn(OH)2(aq) has log K = 11.12 - 17.82 (IUPAC review, Powell et al.
+    # 2013, from memory), so ZnO needs about 2e-7 to show; the report says so among its warnings
     zn = tmp_path / "zn.md"
-    write_report(zn, compute_map("Zn", activity=1e-6))
+    write_report(zn, compute_map("Zn", activity=1e-7))
     text = zn.read_text(encoding="utf-8")
     assert "no solid compound of Zn is stable on this map" in text and "ZnO" in text
     fe = tmp_path / "fe.md"

@@ -425,7 +425,7 @@ def solubility(dmap_or_element, ph, potential_v, **conditions):
     >>> r.solid, r.dominant
     ('ZnO', 'Zn(OH)2(aq)')
     >>> round(float(r.log10_total), 2)
-    -5.7
+    -6.53
     """
     dmap = _get_map(dmap_or_element, conditions)
     return _evaluate(_model(dmap), dmap, ph, potential_v)
@@ -480,7 +480,7 @@ def solubility_curve(dmap, ph, potential_v=None, along=None):
     >>> from pourbaix.maps.domain_map import compute_map
     >>> r = solubility_curve(compute_map("Zn"), [6.0, 9.5, 13.0], potential_v=0.0)
     >>> [round(float(v), 1) for v in r.log10_total]
-    [-0.8, -5.7, -3.8]
+    [-0.9, -6.5, -3.2]
     """
     x, y = _along_line(dmap, ph, potential_v, along)
     return _evaluate(_model(dmap), dmap, x, y)
@@ -516,7 +516,7 @@ def solubility_minimum(dmap, potential_v=None, along=None, ph_range=None):
     >>> from pourbaix.maps.domain_map import compute_map
     >>> ph, r = solubility_minimum(compute_map("Zn"), potential_v=0.0)
     >>> round(ph, 1), r.solid
-    (9.8, 'ZnO')
+    (9.6, 'ZnO')
     """
     from scipy.optimize import minimize_scalar
 
@@ -613,9 +613,9 @@ def solid_onset(dmap, n_ph=241, n_potential=201):
     Examples
     --------
     >>> from pourbaix.maps.domain_map import compute_map
-    >>> onset = solid_onset(compute_map("Zn", activity=1e-6))
+    >>> onset = solid_onset(compute_map("Zn", activity=1e-7))
     >>> onset.solid, onset.shown, f"{onset.activity:.1e}"
-    ('ZnO', False, '1.8e-06')
+    ('ZnO', False, '2.0e-07')
     """
     model = _model(dmap)
     el = model.element
@@ -669,8 +669,8 @@ def missing_solid_note(dmap):
     Examples
     --------
     >>> from pourbaix.maps.domain_map import compute_map
-    >>> print(missing_solid_note(compute_map("Zn", activity=1e-6)))  # doctest: +ELLIPSIS
-    no solid compound of Zn is stable on this map at activity 1e-06; the first to show would be ZnO ...
+    >>> print(missing_solid_note(compute_map("Zn", activity=1e-7)))  # doctest: +ELLIPSIS
+    no solid compound of Zn is stable on this map at activity 1e-07; the first to show would be ZnO ...
     """
     c = dmap.conditions
     if (

@@ -271,7 +271,8 @@ def _element_page(element, species, alternatives, table):
         rows.append((
             sp.name + (" (metastable)" if sp.metastable else ""),
             sp.phase,
-            _fmt(sp.dgf_kj_mol, 3),
+            _fmt(sp.dgf_kj_mol, 3)
+            + (f" (u {sp.dgf_unc_kj_mol:g})" if sp.dgf_unc_kj_mol is not None else ""),
             _fmt(sp.dhf_kj_mol, 3),
             _fmt(sp.s_j_molk, 2),
             _fmt(sp.cp_j_molk, 2) or ("Maier–Kelley" if sp.mk_a_j_molk is not None else ""),
@@ -283,7 +284,8 @@ def _element_page(element, species, alternatives, table):
         ".. This page is generated from species_data/ at build time.\n\n",
         _title(title),
         f"\n{len(species)} species in the base tables (data set ``default``). "
-        "ΔfG° and ΔfH° in kJ/mol, S° and Cp° in J/(mol K), at 298.15 K and 1 bar; "
+        "ΔfG° and ΔfH° in kJ/mol, S° and Cp° in J/(mol K), at 298.15 K and 1 bar "
+        "(u: the standard uncertainty of ΔfG° where the row's source states one); "
         "source keys are cited in full on :doc:`../sources`.\n\n",
         _list_table(("species", "phase", "ΔfG°", "ΔfH°", "S°", "Cp°", "route to T", "source", "note"),
                     rows, widths=(12, 5, 8, 8, 7, 7, 14, 8, 31)),
