@@ -47,9 +47,19 @@ def test_band_width_of_an_acid_base_line_follows_propagation(arsenic):
 
 
 def test_zero_uncertainty_gives_no_band():
-    r = sample_maps("Zn", samples=10, default_uncertainty_kj_mol=0.0)
+    # rows without a stated uncertainty and a default of 0: nothing moves
+    table = load_species()
+    bare = dataclasses.replace(
+        table,
+        species=tuple(dataclasses.replace(s, dgf_unc_kj_mol=None) for s in table.species),
+    )
+    r = sample_maps("Zn", samples=10, default_uncertainty_kj_mol=0.0, table=bare)
+    assert r.stated == 0
     _, _, band = boundary_band(r, resolution=40)
     assert not band.any()
+    # the same default with the zinc rows' own uncertainties (IUPAC review) draws a band
+    r = sample_maps("Zn", samples=10, default_uncertainty_kj_mol=0.0, table=table)
+    assert r.stated == 6 and boundary_band(r, resolution=40)[2].any()
 
 
 def test_bad_sample_count():

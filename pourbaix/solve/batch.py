@@ -611,7 +611,7 @@ def solubility_at(batch, ph, potential_v):
     --------
     >>> b = batch_planes("Zn", activity=[1e-6])
     >>> round(float(solubility_at(b, 9.5, 0.0)[0][0]), 2)
-    -5.7
+    -6.53
     """
     if not batch.dissolved.any() or not batch.solid.any():
         raise ConditionsError(
