@@ -656,6 +656,27 @@ def test_simple_maps_keep_labels_and_no_key(maps, element):
     assert tuple(ax.figure.get_size_inches()) == pytest.approx(draw.FIGURE_SIZE_IN)
 
 
+@pytest.mark.parametrize("dpi", [100, 200])
+def test_least_label_size_is_below_matplotlibs_measure(maps, steel, dpi):
+    # the shortcut that skips measuring labels too big for a domain must never exceed
+    # the box matplotlib's own text layout gives (the reference), or a label that fits
+    # would be pushed out of its domain
+    from pourbaix.plot.labels import Placer
+    from pourbaix.plot.style import get_renderer
+
+    fig, ax = plt.subplots(dpi=dpi)
+    placer = Placer(ax, get_renderer(fig))
+    texts = [d.label for m in (*maps.values(), steel) for d in m.domains]
+    texts += ["O₂/H₂O", "1", "23", "Ill", "two\nlines of text", r"$\mathrm{Me_{2}(OH)_{2}^{+}}$"]
+    for text in texts:
+        for size in (10.0, 8.5, 6.5):
+            t = ax.text(0, 0, text, fontsize=size, ha="center", va="center")
+            w, h, _, _ = placer.measure(t)
+            least_w, least_h = placer.least_size(text, size)
+            assert least_w <= w and least_h <= h + 1e-9, (text, size)
+            t.remove()
+
+
 def test_segment_box_crossing_matches_shapely():
     # Reference: shapely's exact LineString/box intersection (GEOS), on random segments and
     # boxes including horizontal and vertical segments (the parallel cases of Liang-Barsky).

@@ -1,7 +1,7 @@
 """The walk over optimal bases (multi-parametric LP) against independent references.
 
 References used here, none of them the code under test:
-* scipy.optimize.linprog (HiGHS interior point, not the dual simplex the walk
+* scipy.optimize.linprog (HiGHS interior point, not the simplex the walk
   starts from) for the optimum at random points;
 * a brute-force enumeration written here: every set of up to k species whose
   metal content matches the ratio (numpy.linalg.lstsq), the cheapest at each
@@ -127,6 +127,64 @@ def test_walk_optimum_equals_linprog_at_random_points():
         assert value == pytest.approx(ref.fun, abs=1e-8)
 
 
+@pytest.mark.parametrize("k", [2, 3, 5])
+def test_simplex_basis_is_optimal_where_linprog_says(k):
+    # the starting basis of the walk (our own two-phase simplex) against HiGHS
+    # (scipy.optimize.linprog, interior point) at random points of random systems,
+    # a third of them with degenerate optima
+    rng = np.random.default_rng(160 + k)
+    for trial in range(12):
+        costs, counts, ratio = random_system(rng, k, 4 * k + 4, degenerate=trial % 3 == 0)
+        A, r = counts.T, ratio / ratio.sum()
+        x, y = rng.uniform(-2, 16), rng.uniform(-2, 2)
+        basis = parametric_lp.simplex_basis(costs, counts, ratio, x, y)
+        c = costs[:, 0] + costs[:, 1] * x + costs[:, 2] * y
+        B = A[:, list(basis)]
+        amounts = np.linalg.solve(B, r)
+        assert np.all(amounts >= -1e-12)  # primal feasible
+        duals = np.linalg.solve(B.T, c[list(basis)])
+        assert np.all(c - A.T @ duals >= -1e-9)  # dual feasible: optimal
+        ref = linprog(c, A_eq=A, b_eq=r, bounds=(0, None), method="highs-ipm")
+        assert amounts @ c[list(basis)] == pytest.approx(ref.fun, abs=1e-9)
+
+
+def test_simplex_basis_refuses_a_ratio_no_species_meets():
+    with pytest.raises(ConditionsError, match="matches the ratio"):
+        parametric_lp.simplex_basis([[0, 0, 0]], [[1, 1]], [3, 1], 7.0, 0.0)
+
+
+@pytest.mark.parametrize("k", [2, 3, 4])
+def test_envelope_of_regions_equals_the_envelope_solve(k):
+    # the domains and shared edges assembled from the walk's regions against the
+    # exact envelope of the same combination planes solved on its own (Qhull route
+    # for many planes, vertex enumeration for few), on random systems
+    from pourbaix.solve.envelope import lower_envelope
+
+    rng = np.random.default_rng(2600 + k)
+    for trial in range(6):
+        costs, counts, ratio = random_system(rng, k, 9, degenerate=trial % 3 == 0)
+        regions = parametric_lp.walk(costs, counts, ratio, WINDOW)
+        combos = parametric_lp.combinations_of(regions)
+        planes = np.array([n @ costs[list(c)] for c, n in combos])
+        ours = parametric_lp.envelope_of_regions(regions, planes, WINDOW)
+        ref = lower_envelope(planes, WINDOW)
+        assert ours is not None
+        assert ours.stable == ref.stable
+        for a, b in zip(ours.polygons, ref.polygons, strict=True):
+            if a is None:
+                continue
+            assert sorted(map(tuple, a.round(7))) == sorted(map(tuple, b.round(7)))
+
+        def edges(env):
+            # end points as a set: a vertical edge's order hangs on the last bit of its pH
+            return sorted(
+                (e.pair, sorted([np.round(e.start, 7).tolist(), np.round(e.end, 7).tolist()]))
+                for e in env.edges
+            )
+
+        assert edges(ours) == edges(ref)
+
+
 def test_critical_region_of_a_textbook_case():
     # Two metals and a 1:1 compound whose cost -1 + 0.1 pH per formula unit
     # (0.5 formula units per mole of metal) beats the pure metals below pH 10:
@@ -161,7 +219,17 @@ def test_steel_maps_by_walk_equal_the_enumeration(metals, ratio):
     def domains(m):
         return sorted((tuple(sorted(d.species)), round(d.area, 7)) for d in m.domains)
 
+    def boundaries(m):
+        return sorted(
+            (
+                tuple(sorted(b.between)),
+                sorted([np.round(b.start, 6).tolist(), np.round(b.end, 6).tolist()]),
+            )
+            for b in m.boundaries
+        )
+
     assert domains(walked) == domains(listed)
+    assert boundaries(walked) == boundaries(listed)
     assert sorted(walked.never_stable) == sorted(listed.never_stable)
     assert "multi-parametric" in walked.method
 

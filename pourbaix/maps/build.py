@@ -28,6 +28,7 @@ def build_map(
     sources,
     method=None,
     extra_species=(),
+    envelope=None,
 ):
     """Solve the envelope of ``entries`` and assemble a DomainMap.
 
@@ -49,6 +50,9 @@ def build_map(
         Method text for the export.
     extra_species : sequence
         Extra rows for the export (e.g. water).
+    envelope : Envelope, optional
+        The envelope of the entries' planes when the caller has it already
+        (an alloy map's walk); solved here otherwise.
 
     Returns
     -------
@@ -59,7 +63,7 @@ def build_map(
 
     planes = np.array([e.plane for e in entries], dtype=float)
     window = (*conditions.ph_range, *conditions.potential_range_v)
-    env = solve.lower_envelope(planes, window)
+    env = solve.lower_envelope(planes, window) if envelope is None else envelope
     domains = []
     for i, poly in enumerate(env.polygons):
         if poly is None:

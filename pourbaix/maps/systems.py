@@ -54,6 +54,7 @@ from pourbaix.maps.result import (
 )
 from pourbaix.physics import energies, thermo
 from pourbaix.solve import envelope as solve
+from pourbaix.solve import parametric_lp
 from pourbaix.tables.ligands import LIGAND_ALIASES, LIGANDS, LigandFamily, resolve_ligand
 
 __all__ = [
@@ -963,10 +964,9 @@ def compute_system_map(
     walked = ratio_vals is not None and not families and ratio_method == "walk"
     if walked:
         # multi-parametric LP: only the combinations optimal somewhere (Gal & Nedoma 1972)
-        from pourbaix.solve import parametric_lp
-
         costs = np.array([to_frame(tuple(p), off0, off1) for p in phis])
-        combos = parametric_lp.optimal_combinations(costs, counts, r, conditions.window)
+        walk_regions = parametric_lp.walk(costs, counts, r, conditions.window)
+        combos = parametric_lp.combinations_of(walk_regions)
     else:
         combos = ratio_combinations(counts, r)
     if not combos:
@@ -1077,8 +1077,19 @@ def compute_system_map(
     species_list = [*all_rows, water_sp]
 
     if not families:
+        # the walk's regions already tile the window: its envelope needs no second solve
+        env = None
+        if walked:
+            env = parametric_lp.envelope_of_regions(walk_regions, base, conditions.window)
         m = build_map(
-            conditions, units, species_list, water_she, warn, sources, method="; ".join(method)
+            conditions,
+            units,
+            species_list,
+            water_she,
+            warn,
+            sources,
+            method="; ".join(method),
+            envelope=env,
         )
         fields = {f: getattr(m, f) for f in DomainMap.__dataclass_fields__}
     else:

@@ -52,6 +52,8 @@ class Placer:
         self.lines = []  # boundary segments in display units, kept clear by line labels
         self.leaders = []  # leader lines drawn so far, display units
         self.soft_lines = []  # water and neutral lines: kept clear where there is a choice
+        self._advances = {}  # (size, character) -> advance width [px]
+        self._line_heights = {}  # size -> height of a line of text [px]
 
     def add_lines(self, segments_data):
         """Register boundary segments (data units) that line labels should not cross."""
@@ -86,6 +88,42 @@ class Placer:
             ext.x0 + ext.width / 2 - anchor[0],
             ext.y0 + ext.height / 2 - anchor[1],
         )
+
+    def least_size(self, text, fontsize):
+        """Lower bounds of the width and height of a label's box [px], without laying it out.
+
+        Laying out a text (glyph shaping) is the costly part of placing
+        labels. A box at least this large is what the exact measure
+        (:meth:`measure`) would give: the height of a blank line in the size
+        (matplotlib sets every line at least the font's ascent and descent), and
+        ``_ADVANCE_SHARE`` of the sum of the characters' advance widths on
+        the longest line (kerning and side bearings take far less; no width
+        for mathtext). A domain too small for these is skipped without
+        measuring the label.
+        """
+        height = self._line_heights.get(fontsize)
+        if height is None:
+            # a blank line: no ink, so its box is the least any line of text gets
+            probe = self.ax.text(0, 0, " ", fontsize=fontsize)
+            height = self.measure(probe)[1]
+            probe.remove()
+            self._line_heights[fontsize] = height
+        if "$" in text:  # mathtext: the source is no guide to the width
+            return 0.0, height
+        width = 0.0
+        font = None
+        for line in text.split("\n"):
+            line_width = 0.0
+            for ch in line:
+                adv = self._advances.get((fontsize, ch))
+                if adv is None:
+                    if font is None:
+                        font = _font_at(fontsize, self.ax.figure.dpi)
+                    adv = font.load_char(ord(ch)).linearHoriAdvance / 65536.0
+                    self._advances[(fontsize, ch)] = adv
+                line_width += adv
+            width = max(width, line_width)
+        return _ADVANCE_SHARE * width, height
 
     def inside_frame(self, boxes):
         """Tell which boxes lie inside the axes frame (less the clearance)."""
@@ -129,6 +167,20 @@ class Placer:
     def to_data(self, xy):
         """Convert display coordinates [px] to data coordinates."""
         return self.ax.transData.inverted().transform(xy)
+
+
+# Share of the summed advance widths a label's box is sure to exceed (kerning and
+# side bearings of the figures' sans-serif font change a label's width by a few per cent).
+_ADVANCE_SHARE = 0.8
+
+
+def _font_at(fontsize, dpi):
+    """The font of plain text (matplotlib's default family) set to a size [pt] and dpi."""
+    from matplotlib.font_manager import FontProperties, findfont, get_font
+
+    font = get_font(findfont(FontProperties(size=fontsize)))
+    font.set_size(fontsize, dpi)
+    return font
 
 
 def _boxes_at(centres, w, h):
@@ -390,7 +442,11 @@ def label_domains(ax, dmap, renderer, colours=None, *, light=False, fixed=(), so
     for i in order:
         d = dmap.domains[i]
         placed = False
+        bx0, by0, bx1, by1 = polys_px[i].bounds
         for size in (LABEL_SIZE - (1.0 if light else 0.0), SMALL_LABEL_SIZE):
+            least_w, least_h = placer.least_size(d.label, size)
+            if bx1 - bx0 - 2 * placer.pad < least_w or by1 - by0 - 2 * placer.pad < least_h:
+                continue  # _fit_inside would find the domain too small for the box
             t = ax.text(
                 0, 0, d.label, fontsize=size, ha="center", va="center", color=colour, zorder=6
             )
@@ -721,7 +777,9 @@ def draw_key(ax, dmap, numbers, renderer, *, grow, unlabelled=0):
     fig = ax.figure
     ppt = fig.dpi / 72.0
     entries = sorted(numbers.items(), key=lambda kv: kv[1])
-    tight = ax.get_tightbbox(renderer)
+    # what stands right of the axes: its own decorations and a second potential axis
+    # (the labels and numbers all sit inside the frame)
+    tight = ax.get_tightbbox(renderer, bbox_extra_artists=ax.child_axes)
     right_pt = max(tight.x1 - ax.bbox.x1, 0.0) / ppt + _KEY_GAP_PT
     line_pt = _KEY_SIZE * 1.75
     height_pt = ax.bbox.height / ppt
@@ -824,31 +882,39 @@ def label_line(
         rotation_mode="anchor",
     )
     tr = ax.transData
+    # a straight line: one angle for every spot on it
+    p = tr.transform((0.0, e0))
+    q = tr.transform((1.0, e0 + slope))
+    ang = math.degrees(math.atan2(q[1] - p[1], q[0] - p[0]))
+    t.set_rotation(ang)
+    nx, ny = -math.sin(math.radians(ang)), math.cos(math.radians(ang))
     spots = [
         (s, f, side)
         for s in (size, size - 1.5)
         for side in (above, not above)
         for f in np.linspace(0.9, 0.06, 36)
     ]
+    extent = {}  # size -> the text's box [px] about its anchor: the same at every spot
     for s, f, side in spots:
-        t.set_fontsize(s)
         ph = x0 + f * (x1 - x0)
         e = e0 + slope * ph
         if not (y0 < e < y1):
             continue
         p = tr.transform((ph, e))
-        q = tr.transform((ph + 1.0, e + slope))
-        ang = math.degrees(math.atan2(q[1] - p[1], q[0] - p[0]))
-        t.set_rotation(ang)
         # centre the text a little above (or below) the line, measured across the line
         hh = 0.66 * s * placer.px_per_pt
-        nx, ny = -math.sin(math.radians(ang)), math.cos(math.radians(ang))
         sgn = 1.0 if side else -1.0
         c = (p[0] + sgn * nx * hh, p[1] + sgn * ny * hh)
-        t.set_position(placer.to_data(c))
-        ext = t.get_window_extent(placer.renderer)
-        box = np.array([[ext.x0, ext.y0, ext.x1, ext.y1]])
+        if s not in extent:
+            t.set_fontsize(s)
+            t.set_position(placer.to_data(c))
+            ext = t.get_window_extent(placer.renderer)
+            extent[s] = (ext.x0 - c[0], ext.y0 - c[1], ext.x1 - c[0], ext.y1 - c[1])
+        dx0, dy0, dx1, dy1 = extent[s]
+        box = np.array([[c[0] + dx0, c[1] + dy0, c[0] + dx1, c[1] + dy1]])
         if placer.clear(box)[0] and not placer.crosses_lines(box[0]):
+            t.set_fontsize(s)
+            t.set_position(placer.to_data(c))
             placer.take(box[0])
             t.set_gid(gid)
             return t
@@ -866,16 +932,29 @@ def label_neutral(ax, placer, neutral):
     t = ax.text(
         0, 0, f"neutral pH {neutral:.2f}", fontsize=7, color="#262626", va="center", zorder=6
     )
+    extent = {}  # (rotation, side) -> the text's box [px] about its anchor, alike at every spot
     for rotation in (90, 0):
-        t.set_rotation(rotation)
         for f in (0.86, 0.14, 0.75, 0.25, 0.64, 0.36, 0.5, 0.95, 0.05):
             for side in (1, -1):
-                t.set_ha("left" if side > 0 else "right")
                 p = ax.transData.transform((neutral, y0 + f * (y1 - y0)))
-                t.set_position(placer.to_data((p[0] + side * 3.0 * placer.px_per_pt, p[1])))
-                ext = t.get_window_extent(placer.renderer)
-                box = np.array([[ext.x0, ext.y0, ext.x1, ext.y1]])
+                c = (p[0] + side * 3.0 * placer.px_per_pt, p[1])
+                if (rotation, side) not in extent:
+                    t.set_rotation(rotation)
+                    t.set_ha("left" if side > 0 else "right")
+                    t.set_position(placer.to_data(c))
+                    ext = t.get_window_extent(placer.renderer)
+                    extent[(rotation, side)] = (
+                        ext.x0 - c[0],
+                        ext.y0 - c[1],
+                        ext.x1 - c[0],
+                        ext.y1 - c[1],
+                    )
+                dx0, dy0, dx1, dy1 = extent[(rotation, side)]
+                box = np.array([[c[0] + dx0, c[1] + dy0, c[0] + dx1, c[1] + dy1]])
                 if placer.clear(box)[0] and not placer.crosses_lines(box[0], clearance_pt=1.5):
+                    t.set_rotation(rotation)
+                    t.set_ha("left" if side > 0 else "right")
+                    t.set_position(placer.to_data(c))
                     placer.take(box[0])
                     t.set_gid("pourbaix-label:neutral")
                     return t

@@ -18,8 +18,13 @@ grows with the number of domains, not with the number of species
 combinations that an enumeration would solve.
 
 The linear programme at the starting point (and wherever a degenerate pivot
-does not lead across an edge) is solved by HiGHS through
-:func:`scipy.optimize.linprog` (Huangfu & Hall 2018).
+does not lead across an edge) is solved by a small two-phase revised simplex
+method written here in numpy (:func:`simplex_basis`; Dantzig 1963, ch. 5-7;
+Bland 1977 against cycling): with k metals the basis is k x k, so each pivot
+costs one small inverse and a k x N product, and the command does not pay
+for importing :mod:`scipy.optimize`. :func:`solve_at` solves one point with
+HiGHS through :func:`scipy.optimize.linprog` (Huangfu & Hall 2018) as an
+independent reference.
 
 References
 ----------
@@ -31,8 +36,11 @@ Press.
 Huangfu, Q. & Hall, J. A. J. (2018). Parallelizing the dual revised simplex
 method. Mathematical Programming Computation 10, 119-142.
 https://doi.org/10.1007/s12532-017-0130-5
-Dantzig, G. B. (1963). Linear Programming and Extensions, ch. 7 (the simplex
-pivot). Princeton University Press.
+Dantzig, G. B. (1963). Linear Programming and Extensions, ch. 5-7 (the simplex
+method, its two phases and the pivot). Princeton University Press.
+Bland, R. G. (1977). New finite pivoting rules for the simplex method.
+Mathematics of Operations Research 2(2), 103-107.
+https://doi.org/10.1287/moor.2.2.103
 """
 
 from __future__ import annotations
@@ -43,7 +51,16 @@ import numpy as np
 
 from pourbaix.errors import ConditionsError
 
-__all__ = ["CriticalRegion", "solve_at", "critical_region", "walk", "optimal_combinations"]
+__all__ = [
+    "CriticalRegion",
+    "solve_at",
+    "simplex_basis",
+    "critical_region",
+    "walk",
+    "optimal_combinations",
+    "combinations_of",
+    "envelope_of_regions",
+]
 
 # Amounts at or below this (mol per mol of metal) are zero: the same positivity
 # tolerance as the enumeration of combinations (systems.ratio_combinations).
@@ -165,22 +182,116 @@ def solve_at(costs, counts, ratio, ph, potential_v):
     return res.x, float(res.fun), np.asarray(res.eqlin.marginals, dtype=float)
 
 
-def _basis_from_solution(A, c, amounts, duals):
-    """Complete the support of a vertex solution to a dual-feasible basis."""
-    k = A.shape[0]
-    basis = [int(s) for s in np.flatnonzero(amounts > _AMOUNT_TOL)]
-    reduced = c - A.T @ duals
-    scale = 1.0 + np.abs(c).max()
-    for j in np.argsort(reduced, kind="stable"):
-        if len(basis) == k:
-            break
-        if j in basis or reduced[j] > 1e-9 * scale:
+def simplex_basis(costs, counts, ratio, ph, potential_v):
+    """An optimal basis of the linear programme at one point, by the revised simplex method.
+
+    Parameters
+    ----------
+    costs : array_like, shape (N, 3)
+        Cost planes ``(c0, cph, ce)`` of the species per formula unit
+        [V, V/pH, V/V].
+    counts : array_like, shape (N, k)
+        Metal atoms in each species (rank k: every metal in some species).
+    ratio : array_like, shape (k,)
+        Amounts of the metals [mol] (normalised to a total of 1).
+    ph, potential_v : float
+        The point [-, V].
+
+    Returns
+    -------
+    tuple of int
+        k columns, ascending, of a basis that is primal feasible (amounts
+        B⁻¹ r >= 0) and dual feasible (reduced costs >= 0) at the point.
+
+    Raises
+    ------
+    ConditionsError
+        If the ratio cannot be met by the species.
+
+    Notes
+    -----
+    Phase 1 minimises the sum of k artificial columns (the identity) from the
+    basis made of them; an artificial left in the basis at zero is pivoted
+    out on any column with a non-zero entry in its row; phase 2 then
+    minimises the costs (Dantzig 1963, ch. 5). The entering column is the
+    most negative reduced cost, switching to the lowest index (Bland 1977)
+    after a run of degenerate pivots, so the method cannot cycle.
+
+    Examples
+    --------
+    Two metals 2:1 and a 1:1 compound cheaper than the pure metals: the
+    compound takes all of the second metal, the first metal's excess stays.
+
+    >>> simplex_basis([[0, 0, 0], [0, 0, 0], [-1, 0, 0]], [[1, 0], [0, 1], [1, 1]],
+    ...               [2, 1], 7.0, 0.0)
+    (0, 2)
+    """
+    c_arr = np.asarray(costs, dtype=float)
+    A = np.asarray(counts, dtype=float).T
+    r = np.asarray(ratio, dtype=float)
+    r = r / r.sum()
+    c = c_arr[:, 0] + c_arr[:, 1] * ph + c_arr[:, 2] * potential_v
+    return _simplex_basis(c, A, r)
+
+
+def _simplex_basis(c, A, r):
+    k, n = A.shape
+    extended = np.hstack([A, np.eye(k)])
+    # phase 1: the artificial columns n..n+k-1 start as the basis (r >= 0)
+    phase1 = np.concatenate([np.zeros(n), np.ones(k)])
+    basis = _simplex(phase1, extended, r, list(range(n, n + k)))
+    inverse = np.linalg.inv(extended[:, basis])
+    infeasibility = float(phase1[basis] @ (inverse @ r))
+    if infeasibility > 1e-9:
+        raise ConditionsError(
+            "no combination of the species matches the ratio "
+            f"(an infeasible linear programme: {infeasibility:.3g} mol/mol left unmatched)"
+        )
+    for pos in range(k):  # artificials left at zero leave for a real column
+        if basis[pos] < n:
             continue
-        if np.linalg.matrix_rank(A[:, [*basis, int(j)]]) == len(basis) + 1:
-            basis.append(int(j))
-    if len(basis) != k or np.linalg.matrix_rank(A[:, basis]) < k:
-        return None
-    return tuple(sorted(basis))
+        inverse = np.linalg.inv(extended[:, basis])
+        row = inverse[pos] @ A
+        row[[b for b in basis if b < n]] = 0.0
+        j = int(np.argmax(np.abs(row)))
+        if abs(row[j]) <= 1e-9:
+            raise ConditionsError("the metal balances are not independent (a metal in no species)")
+        basis[pos] = j
+    basis = _simplex(c, A, r, basis)
+    return tuple(sorted(int(b) for b in basis))
+
+
+_BLAND_AFTER = 20  # degenerate pivots in a row before the lowest-index rule takes over
+
+
+def _simplex(c, A, r, basis):
+    """Revised simplex from a feasible basis (Dantzig 1963, ch. 7; Bland 1977): an optimal basis."""
+    k, n = A.shape
+    scale = 1.0 + float(np.abs(c).max())
+    degenerate_run = 0
+    for _ in range(50 * (n + k)):
+        inverse = np.linalg.inv(A[:, basis])
+        x_b = inverse @ r
+        reduced = c - (c[basis] @ inverse) @ A
+        reduced[basis] = 0.0
+        negative = np.flatnonzero(reduced < -1e-11 * scale)
+        if not len(negative):
+            return basis
+        if degenerate_run >= _BLAND_AFTER:
+            entering = int(negative[0])
+        else:
+            entering = int(negative[np.argmin(reduced[negative])])
+        w = inverse @ A[:, entering]
+        ok = np.flatnonzero(w > 1e-12)
+        if not len(ok):
+            raise ConditionsError("the linear programme is unbounded (a species of negative size?)")
+        ratios = np.maximum(x_b[ok], 0.0) / w[ok]
+        least = ratios.min()
+        ties = ok[ratios <= least + 1e-12]
+        leave = int(ties[np.argmin(np.asarray(basis)[ties])])  # lowest index leaves (Bland)
+        degenerate_run = degenerate_run + 1 if least <= 1e-12 else 0
+        basis[leave] = entering
+    raise ConditionsError("the simplex method did not converge")
 
 
 def _reduced_planes(costs, A, r, basis):
@@ -310,9 +421,8 @@ def _dual_feasible_at(reduced, point, scale):
 
 
 def _lp_basis(costs, A, r, point):
-    amounts, _, duals = solve_at(costs, A.T, r, point[0], point[1])
     c = costs[:, 0] + costs[:, 1] * point[0] + costs[:, 2] * point[1]
-    return _basis_from_solution(A, c, amounts, duals)
+    return _simplex_basis(c, A, r)
 
 
 def walk(costs, counts, ratio, window, start=None):
@@ -349,7 +459,7 @@ def walk(costs, counts, ratio, window, start=None):
     (Borrelli, Bemporad & Morari 2017, §6.3). Where the vertex is degenerate
     (an amount of zero in the basis) a pivot may lead to another basis of the
     same vertex instead of across the edge; then the linear programme is
-    solved with HiGHS just beyond the edge. A last check that the regions
+    solved just beyond the edge (:func:`simplex_basis`). A last check that the regions
     cover the whole window solves the programme inside any gap left.
 
     Examples
@@ -476,11 +586,179 @@ def optimal_combinations(costs, counts, ratio, window):
     >>> [(c, [round(float(v), 3) for v in n]) for c, n in combos]
     [((2,), [0.5]), ((0, 1), [0.5, 0.5])]
     """
+    return combinations_of(walk(costs, counts, ratio, window))
+
+
+def combinations_of(regions):
+    """The species sets of critical regions, each once, with their amounts.
+
+    Parameters
+    ----------
+    regions : sequence of CriticalRegion
+        As :func:`walk` returns them.
+
+    Returns
+    -------
+    list of (tuple of int, ndarray)
+        Species indices (ascending) and their amounts per mole of metal
+        [mol/mol], ordered by set size and then by indices.
+
+    Examples
+    --------
+    >>> regions = walk([[0, 0, 0], [0, 0, 0], [-1, 0.1, 0]], [[1, 0], [0, 1], [1, 1]],
+    ...                [1, 1], (0, 14, -1, 1))
+    >>> [c for c, _ in combinations_of(regions)]
+    [(2,), (0, 1)]
+    """
     found = {}
-    for reg in walk(costs, counts, ratio, window):
+    for reg in regions:
         support = reg.support
         if support in found:
             continue
         # the basis is ascending, so the positive amounts are in the order of the support
         found[support] = np.array([n for n in reg.amounts if n > _AMOUNT_TOL], dtype=float)
     return [(s, found[s]) for s in sorted(found, key=lambda s: (len(s), s))]
+
+
+# Vertices closer than this (window-normalised units) are one; a plane within this
+# of the lowest at a vertex [V, relative to 1 + the largest |value|] is on it: the
+# tolerances of the envelope solve (pourbaix.solve.envelope).
+_VERTEX_TOL = 1e-9
+_PLANE_TOL = 1e-9
+
+
+def envelope_of_regions(regions, planes, window):
+    """The exact lower envelope of the walk's combinations, assembled from its regions.
+
+    The critical regions already tile the window, so the domains and shared
+    edges of the combinations' planes follow from the regions' vertices
+    alone: no second solve (and no import of :mod:`scipy.spatial`).
+
+    Parameters
+    ----------
+    regions : sequence of CriticalRegion
+        As :func:`walk` returns them.
+    planes : array_like, shape (M, 3)
+        Energy planes per mole of metal of the combinations, in the order of
+        :func:`combinations_of` [V, V/pH, V/V] (``Σ n_s c_s``).
+    window : (float, float, float, float)
+        ``(ph_lo, ph_hi, e_lo, e_hi)`` [-, -, V, V], as walked.
+
+    Returns
+    -------
+    pourbaix.solve.envelope.Envelope or None
+        The same result as :func:`pourbaix.solve.envelope.lower_envelope`
+        of ``planes`` (domains ordered counter-clockwise, shared edges with
+        their lines), or None when the domains do not tile the window (two
+        combinations of equal energy over an area): then solve the envelope
+        of the planes directly.
+
+    Notes
+    -----
+    Every vertex of a domain is a vertex of some region. At each vertex the
+    combinations whose plane is lowest there are found; vertices where
+    regions of one combination meet (inside its domain or on an edge: fewer
+    than three lowest planes inside the window, fewer than two on its sides,
+    not a corner) are dropped. A domain is the set of vertices where its
+    plane is lowest, ordered by angle (it is convex),
+    and two domains share an edge where they share two vertices (a linear
+    function equal to the concave lower envelope at two points equals it
+    between them).
+
+    Examples
+    --------
+    >>> costs, counts, ratio = [[0, 0, 0], [0, 0, 0], [-1, 0.1, 0]], [[1, 0], [0, 1], [1, 1]], [1, 1]
+    >>> regions = walk(costs, counts, ratio, (0, 14, -1, 1))
+    >>> combos = combinations_of(regions)
+    >>> planes = [n @ np.asarray(costs, dtype=float)[list(c)] for c, n in combos]
+    >>> env = envelope_of_regions(regions, planes, (0, 14, -1, 1))
+    >>> [round(float(e.start[0]), 6) for e in env.edges]
+    [10.0]
+    """
+    from pourbaix.solve.envelope import Edge, Envelope
+
+    x0, x1, y0, y1 = (float(v) for v in window)
+    dx, dy = x1 - x0, y1 - y0
+    planes = np.asarray(planes, dtype=float)
+    n = len(planes)
+    # window-normalised (u, v) as in the envelope solve
+    A = np.column_stack(
+        [planes[:, 0] + planes[:, 1] * x0 + planes[:, 2] * y0, planes[:, 1] * dx, planes[:, 2] * dy]
+    )
+    corners = np.array([[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]])
+    uv = np.vstack(
+        [corners]
+        + [
+            np.column_stack([(r.polygon[:, 0] - x0) / dx, (r.polygon[:, 1] - y0) / dy])
+            for r in regions
+        ]
+    )
+    uv = np.clip(uv, 0.0, 1.0)
+    uv = _merge_close(uv, _VERTEX_TOL)
+    vals = A[:, 0][None, :] + np.outer(uv[:, 0], A[:, 1]) + np.outer(uv[:, 1], A[:, 2])
+    low = vals.min(axis=1)
+    member = vals <= low[:, None] + _PLANE_TOL * (1.0 + np.abs(low).max())
+    # Where regions of one combination meet (bases that differ in a zero amount), their
+    # vertices lie inside its domain or on its edges. A vertex of the envelope is a
+    # corner of the window, or a point of the window's side where two planes are
+    # lowest, or an inner point where three or more are.
+    on_side = (uv <= 0.0).any(axis=1) | (uv >= 1.0).any(axis=1)
+    corner = ((uv <= 0.0) | (uv >= 1.0)).all(axis=1)
+    lowest = member.sum(axis=1)
+    keep = corner | (on_side & (lowest >= 2)) | (lowest >= 3)
+    uv, member = uv[keep], member[keep]
+    polygons = [None] * n
+    total = 0.0
+    for i in range(n):
+        pts = uv[member[:, i]]
+        if len(pts) < 3:
+            continue
+        centre = pts.mean(axis=0)
+        pts = pts[np.argsort(np.arctan2(pts[:, 1] - centre[1], pts[:, 0] - centre[0]))]
+        area = _area(pts)
+        if area <= _AREA_TOL:
+            continue
+        total += area
+        polygons[i] = np.column_stack([x0 + dx * pts[:, 0], y0 + dy * pts[:, 1]])
+    if abs(total - 1.0) > 1e-9:
+        return None  # overlapping domains (coincident planes): not a tiling
+    stable = [i for i in range(n) if polygons[i] is not None]
+    sub = member[:, stable].astype(np.int32)
+    shared = sub.T @ sub
+    edges = []
+    for a, b in zip(*np.nonzero(np.triu(shared, 1) >= 2), strict=True):
+        i, j = stable[a], stable[b]
+        pts = uv[member[:, i] & member[:, j]]
+        d = pts - pts[0]
+        direction = d[np.argmax(np.hypot(d[:, 0], d[:, 1]))]
+        t = d @ direction
+        p_uv, q_uv = pts[np.argmin(t)], pts[np.argmax(t)]
+        if np.hypot(*(q_uv - p_uv)) <= _VERTEX_TOL:
+            continue
+        p = (x0 + dx * float(p_uv[0]), y0 + dy * float(p_uv[1]))
+        q = (x0 + dx * float(q_uv[0]), y0 + dy * float(q_uv[1]))
+        if p[0] > q[0] or (p[0] == q[0] and p[1] > q[1]):
+            p, q = q, p
+        # boundary line psi_i = psi_j: d0 + dph pH + de E = 0
+        d0, dph, de = (float(v) for v in planes[i] - planes[j])
+        if abs(de) <= 1e-14:
+            edges.append(Edge((i, j), p, q, float("nan"), float("inf"), -d0 / dph))
+        else:
+            edges.append(Edge((i, j), p, q, -d0 / de, -dph / de))
+    return Envelope(polygons, edges, {}, (x0, x1, y0, y1))
+
+
+def _merge_close(points, tol):
+    """Points sorted by (u, v) with those within ``tol`` of an earlier one dropped."""
+    pts = points[np.lexsort((points[:, 1], points[:, 0]))]
+    keep = np.ones(len(pts), dtype=bool)
+    u, v = pts[:, 0].tolist(), pts[:, 1].tolist()
+    for a in range(len(u)):
+        if not keep[a]:
+            continue
+        b = a + 1
+        while b < len(u) and u[b] - u[a] <= tol:
+            if keep[b] and abs(v[b] - v[a]) <= tol:
+                keep[b] = False
+            b += 1
+    return pts[keep]
