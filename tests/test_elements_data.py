@@ -66,10 +66,14 @@ def test_datasets_counts_the_rows_typed_from_memory(capsys):
     assert main(["datasets"]) == 0
     out = capsys.readouterr().out
     assert f"{len(typed)} of {len(rows)} rows of the default data set were typed from memory" in out
-    # every imported row names the file it was read from, none is typed from memory
+    # every imported row names the file it was read from, none of its read values is typed from
+    # memory; the CODATA uncertainty the import adds to a few rows (typed from the printed table,
+    # from memory) follows "; u(dG) =" and says so there
     imported = [s for s in rows if s.note.startswith("read by species_data/import")]
     assert len(imported) > 500
-    assert not [s for s in imported if "from memory" in s.note]
+    assert not [s for s in imported if "from memory" in s.note.split("; u(dG) =")[0]]
+    with_u = [s for s in imported if s.dgf_unc_kj_mol is not None]
+    assert with_u and all("; u(dG) =" in s.note and "from memory" in s.note for s in with_u)
 
 
 def _all_elements():

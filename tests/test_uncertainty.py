@@ -95,12 +95,19 @@ def _codata_u(u_dh, u_s, elements):
 
 # CODATA Key Values (Cox, Wagman & Medvedev 1989), printed +/- of dH [kJ/mol] and S [J/(mol K)]
 # (from memory): Al3+ 1.5 and 10; Al2O3 1.3 and 0.10; Mg2+ 0.6 and 4; MgO 0.30 and 0.15;
-# elements Al(cr) 0.10, Mg(cr) 0.10, H2(g) 0.003, O2(g) 0.005.
+# CdO 0.40 and 1.5; HgO (red) 0.12 and 0.30; Hg2Cl2 0.40 and 0.8; Hg2SO4 0.40 and 0.20;
+# elements Al(cr) 0.10, Mg(cr) 0.10, Cd(cr) 0.15, Hg(l) 0.12, S(rh) 0.050, H2(g) 0.003,
+# O2(g) 0.005, Cl2(g) 0.010. The hand-typed rows carry the value typed; the mercury and cadmium
+# rows get it from species_data/import/run_import.py.
 CODATA_ROWS = [
     ("Al^3+", "aq", _codata_u(1.5, 10, [(1, 0.10), (1.5, 0.003)])),
     ("Al2O3", "s", _codata_u(1.3, 0.10, [(2, 0.10), (1.5, 0.005)])),
     ("Mg^2+", "aq", _codata_u(0.6, 4, [(1, 0.10), (1, 0.003)])),
     ("MgO", "s", _codata_u(0.30, 0.15, [(1, 0.10), (0.5, 0.005)])),
+    ("CdO:monteponite", "s", _codata_u(0.40, 1.5, [(1, 0.15), (0.5, 0.005)])),
+    ("HgO:montroydite", "s", _codata_u(0.12, 0.30, [(1, 0.12), (0.5, 0.005)])),
+    ("Hg2Cl2:calomel", "s", _codata_u(0.40, 0.8, [(2, 0.12), (1, 0.010)])),
+    ("Hg2SO4", "s", _codata_u(0.40, 0.20, [(2, 0.12), (1, 0.050), (2, 0.005)])),
 ]
 
 

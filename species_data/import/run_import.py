@@ -292,6 +292,66 @@ MISSING_REFS = {
         "Plenum Press, New York (1989)."
     ),
 }
+# CODATA Key Values (Cox, Wagman & Medvedev 1989): the printed +/- of dfH [kJ/mol] and S
+# [J/(mol K)] of rows the LLNL file takes from them (reference code 89cox/wag), by entry name,
+# and the +/- of S of the elements in their formation reactions, per mole of the element's
+# reference form (typed from the printed key-value table, from memory; the file's dG of each
+# of these rows equals dH - T dS from these key values). CODATA's +/- is about twice the
+# standard uncertainty (95 % level; from memory).
+CODATA_PLUS_MINUS = {
+    "Monteponite": (0.40, 1.5),
+    "Montroydite": (0.12, 0.30),
+    "Calomel": (0.40, 0.8),
+    "Hg2SO4": (0.40, 0.20),
+}
+CODATA_ELEMENT_S = {  # element: (atoms per mole of its reference form, +/- of its S)
+    "Cd": (1, 0.15, "Cd(cr) 51.80"),
+    "Hg": (1, 0.12, "Hg(l) 75.90"),
+    "S": (1, 0.050, "S(rh) 32.054"),
+    "O": (2, 0.005, "O2(g) 205.152"),
+    "Cl": (2, 0.010, "Cl2(g) 223.081"),
+    "H": (2, 0.003, "H2(g) 130.680"),
+}
+
+
+def codata_uncertainty(f, plus_minus) -> tuple[float, str]:
+    """Standard uncertainty of dG = dH - T dfS from CODATA +/- values, and the note saying so.
+
+    U(dG)^2 = U(dH)^2 + T^2 [U(S)^2 + sum (nu_el U(S_el))^2] for independent inputs (JCGM
+    100:2008 eq. 10); u = U / 2. Ions: the H2 of the formation reaction (charge / 2) counts.
+    """
+    u_dh, u_s = plus_minus
+    terms = [u_s**2]
+    named = []
+    counts = dict(f.composition)
+    if f.charge:
+        # M + z H+ = M^z+ + z/2 H2; for an anion |z|/2 more H2 on the left (H2 = 2 H+ + 2 e-)
+        counts["H"] = counts.get("H", 0) + abs(f.charge)
+    for element, n in sorted(counts.items()):
+        atoms, u_el, text = CODATA_ELEMENT_S[element]
+        terms.append((n / atoms * u_el) ** 2)
+        named.append(f"{text} +/- {u_el:g}")
+    u = 0.5 * math.sqrt(u_dh**2 + (298.15e-3) ** 2 * sum(terms))
+    note = (
+        f"; u(dG) = {u:.2f} kJ/mol (dgf_unc_kj_mol), half of U(dG) = sqrt(U(dH)^2 + T^2 "
+        f"[U(S)^2 + sum (nu U(S of element))^2]) (JCGM 100:2008 eq. 10) with the CODATA89 "
+        f"key-value +/- (dH {u_dh:g}, S {u_s:g}; {', '.join(named)} J/(mol K); from memory); "
+        "CODATA's +/- is about twice the standard uncertainty (95 % level; from memory)"
+    )
+    return u, note
+
+
+def _with_uncertainty(cols, rows, stated) -> tuple:
+    """Insert dgf_unc_kj_mol after dgf_kj_mol when a row of the table states one."""
+    if not any((r[0], r[1], r[2]) in stated for r in rows):
+        return cols, rows
+    at = cols.index("dgf_kj_mol") + 1
+    return (
+        cols[:at] + ["dgf_unc_kj_mol"] + cols[at:],
+        [r[:at] + [stated.get((r[0], r[1], r[2]), "")] + r[at:] for r in rows],
+    )
+
+
 # native elements the LLNL file lacks: CAS in the CRC table, phase
 CRC_ELEMENTS = {
     "Bi": ("7440-69-9", "s"),
@@ -790,6 +850,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
     entries_by_name = {e.name: e for e in entries}
     hydrates: dict[tuple, str] = {}
     crc_ions = _read_crc_ions(crc_ions_file())
+    stated: dict[tuple[str, str, str], str] = {}  # (formula, phase, form) -> dgf_unc_kj_mol
     entropies = element_entropies(_read_crc(crc_solids_file()))
 
     gibbs_now: list[dict] = [{}]  # dG of the tables, read once the element tables are built
@@ -859,6 +920,10 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
         if stem == ADDITIONS_STEM and entry.source in LOGK_CODES:
             row = _from_logk(row, entry, gibbs_now[0])
         row[-1] += crc_remark(f, phase, float(row[3]), crc_ions)
+        if entry.source == "89cox/wag" and entry.name in CODATA_PLUS_MINUS:
+            u, remark = codata_uncertainty(f, CODATA_PLUS_MINUS[entry.name])
+            stated[(text, phase, form)] = f"{u:.2f}"
+            row[-1] += remark
 
         tables[stem].append(row)
 
@@ -1033,7 +1098,9 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
                 float(row[5]) if row[5] else None,
                 entropies,
             )
-        cols, rows = _with_parameters(HEADER, rows, index, transitions)
+        cols, rows = _with_uncertainty(
+            *_with_parameters(HEADER, rows, index, transitions), stated
+        )
         out[f"{stem}.csv"] = _csv_text(cols, rows)
     out["transitions/phase_transitions.csv"] = _csv_text(TRANSITIONS_HEADER, transitions)
     src = io.StringIO()
