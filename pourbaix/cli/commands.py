@@ -132,7 +132,7 @@ def _add_conditions(p, window=True):
     g.add_argument(
         "--ratio",
         type=ratio_amounts,
-        help="amounts of the metals, e.g. 70:19:11 for Fe Cr Ni (largest at most 1e9 x smallest)",
+        help="amounts of the metals, e.g. 70:19:11 for Fe Cr Ni, or 3:1 for Fe K (jarosite, with --ligand S) (largest at most 1e9 x smallest)",
     )
     g.add_argument(
         "--exclude",
