@@ -12,8 +12,8 @@ jarosite / ferric ion line with the pH the published constants give.
 import math
 
 import pytest
-
 from cli_run import run
+
 from pourbaix.maps.systems import compute_system_map
 from pourbaix.tables.species import load_species
 

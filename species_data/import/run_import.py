@@ -1071,6 +1071,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
         )
 
     index = SupcrtIndex(read_supcrt_cached(sup_path), sup_refs)
+    llnl_index = _llnl_by_species(entries)
     transitions: list[list[str]] = []
     out: dict[str, str] = {}
     for f in sorted(species_dir.glob("*.csv")):
@@ -1080,6 +1081,8 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
         with f.open(newline="", encoding="utf-8") as handle:
             header, *rows = list(csv.reader(handle))
         rows = [_verified_by_crc(header, row, crc) for row in rows]
+        if f.stem in HAND_TABLES:
+            rows = [_read_from_llnl(header, row, llnl_index, gibbs_now[0], crc) for row in rows]
         cols, rows = _with_parameters(header, rows, index, transitions)
         out[f.name] = _csv_text(cols, rows)
     for stem, rows in sorted(tables.items()):
@@ -1322,6 +1325,101 @@ def _thermoddem_row(entry, choice, phases, gibbs) -> list[str]:
         f"{float(phase.logk) + (old - total) / RT_LN10:.2f} for this reaction with these tables"
     )
     return [text, "s", form, fmt(total), "", "", "", "", "", "", "", "", "", cited, note]
+
+
+# hand rows typed from memory whose compilation the LLNL file reprints under its own code: their
+# values are read from the file (our source key -> LLNL reference code); a hydrolysis constant
+# (Baes & Mesmer) is read as the entry's log K and converted with these tables' values
+HAND_CODES = {"BM76": "76bae/mes", "NBS82": "82wag/eva"}
+# tables whose rows this pass reads (the others keep their typed rows until reviewed)
+HAND_TABLES = (
+    "carbon", "chromium", "cobalt", "iron", "lead", "manganese", "nitrogen", "sulfur", "titanium",
+)  # fmt: skip
+_HAND_PREFIX = "read by species_data/import from LLNL "
+_BM76_CLAUSE = re.compile(
+    r"from memory; log \*beta\d* = \S+ (?:\(.*?\) )?converted with [^;]*?-237\.129(?:; |$)"
+)
+
+
+def _llnl_by_species(entries) -> dict:
+    """LLNL entries of the codes in HAND_CODES by (formula text, phase, form)."""
+    out = {}
+    for e in entries:
+        if e.source not in HAND_CODES.values() or not e.value("delG0f"):
+            continue
+        try:
+            if e.section == "gases":
+                text, phase, form = parse_formula(e.name.removesuffix("(g)")).text, "g", ""
+            else:
+                text, phase, form = formula_text(e.name, e.section, e.formula)
+        except FormulaError:
+            continue
+        out.setdefault((text, phase, form), e)
+    return out
+
+
+def _read_from_llnl(header, row, index, gibbs, crc) -> list[str]:
+    """A hand row typed from memory, its values read from the LLNL entry of its compilation.
+
+    The file gives no heat capacity: a Cp the row holds is checked against the CRC table
+    (same CAS, to its 0.1 J/(mol K)) or stays marked as typed from memory.
+    """
+    values = dict(zip(header, row, strict=True))
+    note = values["note"]
+    code = HAND_CODES.get(values["source"])
+    if code is None or not (_HAND_PREFIX in note or "from memory" in note):
+        return row
+    try:
+        text = parse_formula(values["formula"]).text
+    except FormulaError:
+        return row
+    entry = index.get((text, values["phase"], values.get("form", "")))
+    if entry is None or entry.source != code:
+        return row
+    if code == "76bae/mes":
+        rest = note.partition(" of these tables; ")[2] if _HAND_PREFIX in note else note
+        rest = _BM76_CLAUSE.sub("", rest, count=1)
+        total, used = RT_LN10 * float(entry.logk[1]), []
+        for coefficient, name in entry.reaction:
+            key = llnl_species(name)
+            if key != ("H^+", "aq"):
+                total += float(coefficient) * float(gibbs[key])
+                used.append(f"dG({key[0]}) {gibbs[key]}")
+        values["dgf_kj_mol"] = fmt(total)
+        head = (
+            f"{_HAND_PREFIX}{LLNL_FILE} entry '{entry.name}' (log K at 25 C {entry.logk[1]} for "
+            f"the entry's dissociation; reference code {code}): dG converted from the entry's log "
+            f"K with {', '.join(used)} of these tables"
+        )
+    else:
+        rest = note.partition(f"{code}); ")[2] if _HAND_PREFIX in note else note
+        rest = rest.replace("from memory; ", "", 1).replace("; from memory", "", 1)
+        if values.get("cp_j_molk") and not rest.startswith("Cp "):
+            printed_cp = crc.get(values.get("cas"), {}).get(
+                "Cps" if values["phase"] == "s" else "Cpg"
+            )
+            if values["phase"] in "sg" and _close(values["cp_j_molk"], printed_cp or "", 1):
+                rest = f"Cp equals the CRC table's ({printed_cp}, CAS {values['cas']}); " + rest
+            else:
+                rest = "Cp typed from memory (the file gives none); " + rest
+        printed = []
+        for column, key, convert in (
+            ("dgf_kj_mol", "delG0f", to_kj),
+            ("dhf_kj_mol", "delH0f", to_kj),
+            ("s_j_molk", "S0", to_j),
+        ):
+            got = entry.value(key)
+            if got:
+                values[column] = fmt(convert(*got))
+                printed.append(f"{key} {got[0]} {got[1]}")
+        head = (
+            f"{_HAND_PREFIX}{LLNL_FILE} entry '{entry.name}' ({', '.join(printed)}; reference "
+            f"code {code})"
+        )
+    if "from memory" in rest:  # partly typed: the note does not open as an imported row's
+        head = "values " + head
+    values["note"] = head + ("; " + rest if rest else "")
+    return [values[c] for c in header]
 
 
 def _csv_text(header, rows) -> str:
