@@ -2,7 +2,8 @@
 
 Sources of the check values (all from memory, as marked):
 - Robinson & Stokes, *Electrolyte Solutions*, 2nd ed. (1959), Appendix 8.10: mean molal
-  activity coefficients at 25 °C of NaCl and CaCl2; Appendix 8.3: osmotic coefficients.
+  activity coefficients at 25 °C of NaCl, CaCl2, HCl, KCl and MgCl2; Appendix 8.3: osmotic
+  coefficients.
 - Millero & Leung (1976), Am. J. Sci. 276, 1035: osmotic coefficient of seawater of
   salinity 35 at 25 °C, 0.901.
 - NEA-TDB (Grenthe et al. 1992, Appendix B): D = 0.509 sqrt(I)/(1 + 1.5 sqrt(I)) at 25 °C and
@@ -119,6 +120,57 @@ def test_sit_worked_values():
 def test_sit_nacl_against_robinson_stokes(m):
     # SIT holds to about 3.5 mol/kg within a few per cent (NEA-TDB, Appendix B)
     assert sit.mean_activity_coefficient("NaCl", m) == pytest.approx(NACL_GAMMA[m], rel=0.03)
+
+
+# Robinson & Stokes 1959, Appendix 8.10, mean molal activity coefficients at 25 °C (from
+# memory), for salts whose epsilon the NEA-TDB tabulates; up to I = 3.5 mol/kg, SIT's range
+RS_GAMMA = {
+    "HCl": {0.5: 0.757, 1.0: 0.809, 2.0: 1.009, 3.0: 1.316},
+    "NaCl": {m: NACL_GAMMA[m] for m in (0.5, 1.0, 2.0, 3.0)},
+    "KCl": {0.5: 0.649, 1.0: 0.604, 2.0: 0.573, 3.0: 0.569},
+    "CaCl2": {0.5: 0.448, 1.0: 0.500},
+    "MgCl2": {0.5: 0.481, 1.0: 0.570},
+}
+
+
+@pytest.mark.parametrize("salt", sorted(RS_GAMMA))
+def test_sit_epsilon_from_mean_activity_coefficients(salt):
+    # The NEA-TDB way of finding epsilon(M, X) (Grenthe et al. 1992, Appendix B, section B.1.2;
+    # Ciavatta 1980, Ann. Chim. (Rome) 70, 551): for a salt M_p X_q, SIT gives
+    # log g± + |z_M z_X| D(I) = eps (2 p q / (p + q)) m, so eps is the slope of that line
+    # through the measured g± (least squares through the origin). The tabulated eps must
+    # agree with the slope within its stated uncertainty (the table's column); a mistyped
+    # value (0.02 off) fails here.
+    from pourbaix.physics.solution import SALTS
+
+    (cation, p, z_c), (anion, q, z_a) = SALTS[salt]
+    sxy = sxx = 0.0
+    for m, gamma in RS_GAMMA[salt].items():
+        ionic = 0.5 * (p * z_c**2 + q * z_a**2) * m
+        y = math.log10(gamma) + abs(z_c * z_a) * sit.debye_huckel_term(ionic)
+        x = 2 * p * q / (p + q) * m
+        sxy, sxx = sxy + x * y, sxx + x * x
+    eps = sit.load_epsilon()[(cation, anion)]
+    rows = {
+        (r["ion_1"], r["ion_2"]): float(r["uncertainty_kg_mol"])
+        for r in _sit_rows()
+        if r["ion_1"] == cation and r["ion_2"] == anion
+    }
+    assert sxy / sxx == pytest.approx(eps, abs=rows[(cation, anion)])
+    # and the module's mean activity coefficient is that line's (the same eps and D)
+    m = max(RS_GAMMA[salt])
+    ionic = 0.5 * (p * z_c**2 + q * z_a**2) * m
+    log_mean = -abs(z_c * z_a) * sit.debye_huckel_term(ionic) + eps * 2 * p * q / (p + q) * m
+    assert math.log10(sit.mean_activity_coefficient(salt, m)) == pytest.approx(log_mean, abs=1e-12)
+
+
+def _sit_rows():
+    import csv
+
+    from pourbaix.tables.species import data_dir
+
+    with open(f"{data_dir()}/activity/sit_nea.csv", encoding="utf-8") as f:
+        return list(csv.DictReader(line for line in f if not line.startswith("#")))
 
 
 def test_sit_range_and_missing_pairs():

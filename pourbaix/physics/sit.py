@@ -6,7 +6,11 @@ charge (Brønsted 1922; Scatchard 1936; Guggenheim & Turgeon 1955; NEA-TDB,
 Grenthe et al. 1992, Appendix B, eqs. B.4-B.5). The epsilon values are those
 of the NEA-TDB reviews (Guillaumont et al. 2003, Appendix B), in
 ``species_data/activity/sit_nea.csv``; an ion pair with no tabulated value
-gets epsilon = 0 and is reported.
+gets epsilon = 0 and is reported. The values were typed from memory; the
+tests check those of HCl, NaCl, KCl, CaCl2 and MgCl2 by the NEA-TDB's own
+route to them (the slope of log gamma± + |z+ z-| D against m through the
+mean activity coefficients of Robinson & Stokes 1959, Appendix 8.10; Ciavatta
+1980), within the uncertainty the table gives.
 
 Range, enforced: ionic strength to 3.5 mol/kg (a warning above, refused
 above 6), temperature 0 to 50 °C (the epsilon values are those of 25 °C; A
