@@ -343,6 +343,10 @@ def compute_speciation(
         specific, missing = system_medium_terms(system, background)
         if missing:
             notes.append("SIT: no epsilon tabulated (taken as 0) for " + ", ".join(missing))
+    if model == "pitzer":
+        from pourbaix.physics.pitzer import system_note
+
+        notes.append(system_note(system))
     x = np.linspace(lo, hi, points)
     amounts = np.zeros((points, len(system.names)))
     present = np.zeros((points, len(system.names)), dtype=bool)
@@ -360,6 +364,7 @@ def compute_speciation(
                 background_ionic_strength=conditions.ionic_strength,
                 start=r,
                 specific_log_gamma=specific,
+                background=background if model == "pitzer" else None,
             )
             amounts[n], present[n], ionic[n] = r.amounts, r.present, r.ionic_strength
     if model is None:

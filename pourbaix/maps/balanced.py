@@ -407,6 +407,10 @@ def compute_balanced_map(
                 else "all tabulated"
             )
         )
+    if model == "pitzer":
+        from pourbaix.physics.pitzer import system_note
+
+        warn.append(system_note(system))
     state = {"last": None, "max_i": 0.0}
 
     def solve(ph, e):
@@ -420,6 +424,7 @@ def compute_balanced_map(
                 background_ionic_strength=background_i,
                 start=state["last"],
                 specific_log_gamma=specific,
+                background=background if model == "pitzer" else None,
             )
         state["last"] = r
         state["max_i"] = max(state["max_i"], r.ionic_strength)

@@ -11,6 +11,11 @@ read from ``species_data/activity/pitzer_hmw84.csv``, written mechanically by
 Range, enforced: 25 °C only (the parameters are those of 25 °C), the ions of
 the HMW84 system, ionic strength up to 9 mol/kg (a warning above, refused
 above 20 mol/kg).
+
+Inside the mass-balanced equilibrium solver (``activity_model="pitzer"`` with
+a background), :func:`solver_log_gamma` evaluates the whole solution — the
+system's dissolved species and the background ions — at each pass, so the
+binary and ternary terms act between all of them.
 """
 
 from __future__ import annotations
@@ -35,6 +40,8 @@ __all__ = [
     "pitzer",
     "mean_activity_coefficient",
     "log_gamma_long_range",
+    "solver_log_gamma",
+    "system_note",
 ]
 
 #: Ions of the Harvie-Møller-Weare (1984) system and their charges.
@@ -163,7 +170,7 @@ def _etheta(zi, zj, ionic, a_phi):
     return e, ep
 
 
-def pitzer(molalities, temperature_c=25.0, parameters=None):
+def pitzer(molalities, temperature_c=25.0, parameters=None, other_charges=None):
     """Activity coefficients, osmotic coefficient and water activity of a brine.
 
     Parameters
@@ -175,6 +182,11 @@ def pitzer(molalities, temperature_c=25.0, parameters=None):
         Temperature [°C]; 25 only (the parameters are those of 25 °C).
     parameters : dict, optional
         As returned by :func:`load_parameters`.
+    other_charges : dict, optional
+        Ion -> charge for ions outside the HMW84 system that may appear in
+        ``molalities``: they count in I and Z, and their own ln gamma is
+        z^2 F + abs(z) sum m_c m_a C_ca (every specific parameter of theirs
+        taken as 0; neutral ones get gamma = 1).
 
     Returns
     -------
@@ -225,9 +237,15 @@ def pitzer(molalities, temperature_c=25.0, parameters=None):
             f"got {temperature_c} °C"
         )
     p = load_parameters() if parameters is None else parameters
+    z = dict(PITZER_IONS)
+    extra = {}
+    for ion, charge in dict(other_charges or {}).items():
+        if ion not in PITZER_IONS:
+            extra[ion] = int(charge)
+    z.update(extra)
     m = {}
     for ion, value in dict(molalities).items():
-        if ion not in PITZER_IONS:
+        if ion not in z:
             raise OptionError(
                 f"ion {ion!r} is outside the Pitzer (HMW84) system; valid: {', '.join(PITZER_IONS)}"
             )
@@ -236,7 +254,6 @@ def pitzer(molalities, temperature_c=25.0, parameters=None):
             raise ConditionsError(f"molality of {ion} must be a number >= 0 mol/kg, got {value!r}")
         if v > 0:
             m[ion] = v
-    z = PITZER_IONS
     ionic = 0.5 * sum(v * z[i] ** 2 for i, v in m.items())
     if ionic > REFUSE_ABOVE:
         raise ConditionsError(
@@ -251,6 +268,7 @@ def pitzer(molalities, temperature_c=25.0, parameters=None):
         )
     cations = [i for i in m if z[i] > 0]
     anions = [i for i in m if z[i] < 0]
+    neutral = [i for i in m if z[i] == 0]
     a_phi = A_PHI_25C
     s = math.sqrt(ionic) if ionic > 0 else 0.0
     big_z = sum(v * abs(z[i]) for i, v in m.items())
@@ -293,8 +311,10 @@ def pitzer(molalities, temperature_c=25.0, parameters=None):
     F += sum(m[c] * m[a] * B[(c, a)][1] for c in cations for a in anions)
     F += sum(m[i] * m[j] * PH[(i, j)][1] for i, j in pairs_c + pairs_a)
     cc = sum(m[c] * m[a] * C[(c, a)] for c in cations for a in anions)
-    ln_gamma = {}
+    ln_gamma = {ion: 0.0 for ion in neutral}  # no lambda parameters here: gamma = 1
     for ion in m:
+        if z[ion] == 0:
+            continue
         same = cations if z[ion] > 0 else anions
         other = anions if z[ion] > 0 else cations
         val = z[ion] ** 2 * F + abs(z[ion]) * cc
@@ -371,3 +391,126 @@ def log_gamma_long_range(charge, ionic_strength):
     from pourbaix.physics.solution import log_gamma
 
     return log_gamma(charge, ionic_strength, 25.0, model="pitzer")
+
+
+def solver_log_gamma(names, charges, background=None, temperature_c=25.0):
+    """log10 gamma of a system's dissolved species as a function of their molalities.
+
+    For :func:`pourbaix.solve.equilibrium.solve_equilibrium`'s
+    ``composition_log_gamma``: the solution is the system's dissolved species
+    plus the ions of a background electrolyte, all in one Pitzer evaluation
+    (:func:`pitzer`), so the binary and ternary terms of HMW84 act between all of
+    them.
+
+    Parameters
+    ----------
+    names : sequence of str
+        Names of the dissolved species, in the solver's order (e.g. ``"Na^+"``,
+        ``"NaCl(aq)"``).
+    charges : sequence of int
+        Their charges.
+    background : dict or str, optional
+        Background salts [mol/kg], e.g. ``"NaCl=1"``; ions of HMW84 only.
+    temperature_c : float
+        Temperature [°C]; 25 only.
+
+    Returns
+    -------
+    callable
+        ``f(molalities) -> numpy.ndarray`` of log10 gamma per species [-].
+
+    Raises
+    ------
+    ConditionsError
+        A temperature other than 25 °C.
+    OptionError
+        A background ion outside the HMW84 system.
+
+    Notes
+    -----
+    Species that are ions of the HMW84 system get their full Pitzer
+    coefficients; other charged species get z^2 F + abs(z) sum m_c m_a C_ca
+    (all their own parameters 0) and neutral ones gamma = 1 (HMW84 has no
+    lambda terms for them). Ion pairs of HMW84 ions (NaCl(aq), CaSO4(aq),
+    MgSO4(aq) ...) should be left out of the system: HMW84 describes those
+    interactions by its B terms, with the salts fully dissociated (Harvie,
+    Møller & Weare 1984, section 2), so keeping them would count them twice.
+    The ions that fix the pH (H+, OH-) are not counted, as in the solver's ionic
+    strength.
+
+    References
+    ----------
+    Harvie, C. E., Møller, N. & Weare, J. H. (1984). Geochim. Cosmochim. Acta
+    48, 723-751. doi:10.1016/0016-7037(84)90098-X
+    """
+    import numpy as np
+
+    from pourbaix.physics import solution
+
+    if abs(float(temperature_c) - 25.0) > 0.5:
+        raise ConditionsError(
+            f"the Pitzer parameters here are those of 25 °C (Harvie, Møller & Weare 1984); "
+            f"got {temperature_c} °C"
+        )
+    medium = {}
+    if background is not None:
+        salts = (
+            solution.parse_background(background)
+            if isinstance(background, str)
+            else dict(background)
+        )
+        for ion, molality, _ in solution.background_ions(salts):
+            if ion not in PITZER_IONS:
+                raise OptionError(
+                    f"background ion {ion!r} is outside the Pitzer (HMW84) system; valid: "
+                    + ", ".join(PITZER_IONS)
+                )
+            medium[ion] = molality
+    names = [str(n) for n in names]
+    others = {n: int(z) for n, z in zip(names, charges, strict=True) if n not in PITZER_IONS}
+    params = load_parameters()
+
+    def log_gamma(molalities):
+        comp = dict(medium)
+        for n, v in zip(names, np.asarray(molalities, dtype=float), strict=True):
+            # a vanishing amount still gets its coefficient (it is dropped at exactly 0)
+            comp[n] = comp.get(n, 0.0) + max(float(v), 1e-300)
+        r = pitzer(comp, temperature_c, params, other_charges=others)
+        return np.array([r.log_gamma.get(n, 0.0) for n in names])
+
+    return log_gamma
+
+
+def system_note(system):
+    """What the Pitzer model covers in a mass-balance system, for a map's or a sweep's notes.
+
+    Parameters
+    ----------
+    system : MassBalanceSystem
+        The system.
+
+    Returns
+    -------
+    str
+    """
+    aq = [n for n, a in zip(system.names, system.aqueous, strict=True) if a]
+    covered = [n for n in aq if n in PITZER_IONS]
+    charged = [
+        n
+        for n, z, a in zip(system.names, system.charges, system.aqueous, strict=True)
+        if a and z and n not in PITZER_IONS
+    ]
+    text = (
+        "Pitzer (Harvie, Møller & Weare 1984, 25 °C): full binary and ternary terms for "
+        + (", ".join(covered) if covered else "none of this system's species")
+        + " with the background ions"
+    )
+    if charged:
+        text += "; charge terms only (no parameters) for " + ", ".join(charged)
+    pairs = [n for n in aq if n.endswith("(aq)") and n not in PITZER_IONS]
+    if pairs:
+        text += (
+            "; neutral species at gamma = 1 (" + ", ".join(pairs) + "): leave out ion pairs of "
+            "HMW84 ions (e.g. NaCl(aq), CaSO4(aq)), which HMW84 describes by its B terms"
+        )
+    return text

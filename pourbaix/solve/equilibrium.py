@@ -349,6 +349,7 @@ def solve_equilibrium(
     start=None,
     max_iter=200,
     max_outer=60,
+    composition_log_gamma=None,
 ):
     """Amounts of all species at equilibrium for given totals (the numerical core).
 
@@ -375,7 +376,15 @@ def solve_equilibrium(
     max_iter : int
         Newton steps allowed per ionic-strength pass.
     max_outer : int
-        Ionic-strength passes allowed.
+        Ionic-strength (or activity-coefficient) passes allowed.
+    composition_log_gamma : callable, optional
+        ``f(molalities) -> log10 gamma`` of the dissolved species from their
+        molalities (in the order of the dissolved rows), for models with
+        specific terms such as Pitzer's
+        (:func:`pourbaix.physics.pitzer.solver_log_gamma`); replaces
+        ``log_gamma``. The passes then iterate on the coefficients, with
+        Anderson mixing of depth 1 (Anderson 1965; Walker & Ni 2011), until
+        they change by less than 1e-12 in log10.
 
     Returns
     -------
@@ -402,6 +411,10 @@ def solve_equilibrium(
     Analysis: Theory and Algorithms*. Wiley, ch. 2 and 6.
     Nocedal, J. & Wright, S. J. (2006). *Numerical Optimization*, 2nd ed.
     Springer, §16.5 (active-set methods).
+    Anderson, D. G. (1965). Iterative procedures for nonlinear integral
+    equations. J. ACM 12, 547-560.
+    Walker, H. F. & Ni, P. (2011). Anderson acceleration for fixed-point
+    iterations. SIAM J. Numer. Anal. 49, 1715-1735.
 
     Examples
     --------
@@ -420,11 +433,57 @@ def solve_equilibrium(
         start=start,
         max_iter=max_iter,
         max_outer=max_outer,
+        composition_log_gamma=composition_log_gamma,
+    )
+
+
+def _solve_composition_gamma(prep, mu_aq0, mu_s, lam, active, lg, function, max_iter, max_outer):
+    """Passes of the fixed-gamma solve with gamma from the composition, Anderson-mixed.
+
+    Returns (lam, active, solid amounts, molalities, log10 gamma, Newton iterations).
+    """
+    ln10 = math.log(10.0)
+    total_it = 0
+    previous = None  # (lg, residual) of the last pass
+    change = math.inf
+    for _ in range(max_outer):
+        lam, active, nu, it = _solve_fixed_gamma(
+            prep, mu_aq0 + lg * ln10, mu_s, lam, active, max_iter
+        )
+        total_it += it
+        m = np.exp(np.minimum(prep.A_aq @ lam - mu_aq0 - lg * ln10, _EXP_MAX))
+        residual = np.asarray(function(m), dtype=float) - lg
+        change = float(np.max(np.abs(residual))) if len(residual) else 0.0
+        if not math.isfinite(change):
+            break
+        if change <= 1e-12:
+            return lam, active, nu, m, lg, total_it
+        step = residual
+        if previous is not None:
+            # Anderson mixing, depth 1 (a secant step on the residual)
+            d_res = residual - previous[1]
+            denom = float(d_res @ d_res)
+            if denom > 0:
+                theta = float(residual @ d_res) / denom
+                step = residual - theta * ((lg - previous[0]) + d_res)
+        previous = (lg, residual)
+        lg = lg + step
+    raise EquilibriumError(
+        f"activity coefficients did not settle in {max_outer} passes "
+        f"(last change {change:.1e} in log10 gamma)"
     )
 
 
 def _solve_prepared(
-    prep, mu, *, log_gamma, background_ionic_strength, start, max_iter=200, max_outer=60
+    prep,
+    mu,
+    *,
+    log_gamma,
+    background_ionic_strength,
+    start,
+    max_iter=200,
+    max_outer=60,
+    composition_log_gamma=None,
 ):
     """:func:`solve_equilibrium` on a system checked and split by :func:`_prepare`."""
     aq, b, A_aq, A_s = prep.aq, prep.b, prep.A_aq, prep.A_s
@@ -449,23 +508,31 @@ def _solve_prepared(
         ionic = float(background_ionic_strength)
     total_it = 0
     lg = np.zeros(len(mu_aq0))
-    for _ in range(max_outer):
-        if log_gamma is not None:
-            lg = np.asarray(log_gamma(z, ionic), dtype=float) * np.ones(len(mu_aq0))
-        mu_aq = mu_aq0 + lg * ln10
-        lam, W, nu, it = _solve_fixed_gamma(prep, mu_aq, mu_s, lam, active, max_iter)
-        total_it += it
-        active = W
-        m = np.exp(np.minimum(A_aq @ lam - mu_aq, _EXP_MAX))
-        new_ionic = float(background_ionic_strength + 0.5 * (m @ prep.zz))
-        if log_gamma is None or abs(new_ionic - ionic) <= 1e-12 * (1.0 + new_ionic):
-            ionic = new_ionic
-            break
-        ionic = new_ionic
-    else:
-        raise EquilibriumError(
-            f"ionic strength did not settle in {max_outer} passes (last {ionic:.6g} mol/kg)"
+    if composition_log_gamma is not None:
+        if start is not None and len(start.log_gamma) == len(mu):
+            lg = np.asarray(start.log_gamma, dtype=float)[aq]
+        lam, active, nu, m, lg, total_it = _solve_composition_gamma(
+            prep, mu_aq0, mu_s, lam, active, lg, composition_log_gamma, max_iter, max_outer
         )
+        ionic = float(background_ionic_strength + 0.5 * (m @ prep.zz))
+    else:
+        for _ in range(max_outer):
+            if log_gamma is not None:
+                lg = np.asarray(log_gamma(z, ionic), dtype=float) * np.ones(len(mu_aq0))
+            mu_aq = mu_aq0 + lg * ln10
+            lam, W, nu, it = _solve_fixed_gamma(prep, mu_aq, mu_s, lam, active, max_iter)
+            total_it += it
+            active = W
+            m = np.exp(np.minimum(A_aq @ lam - mu_aq, _EXP_MAX))
+            new_ionic = float(background_ionic_strength + 0.5 * (m @ prep.zz))
+            if log_gamma is None or abs(new_ionic - ionic) <= 1e-12 * (1.0 + new_ionic):
+                ionic = new_ionic
+                break
+            ionic = new_ionic
+        else:
+            raise EquilibriumError(
+                f"ionic strength did not settle in {max_outer} passes (last {ionic:.6g} mol/kg)"
+            )
     amounts = np.zeros(len(mu))
     amounts[prep.aq_rows] = m
     present = np.zeros(len(mu), dtype=bool)
@@ -509,6 +576,7 @@ def solve_at(
     background_ionic_strength=0.0,
     start=None,
     specific_log_gamma=None,
+    background=None,
 ):
     """Equilibrium of a :class:`~pourbaix.physics.components.MassBalanceSystem` at one point.
 
@@ -531,6 +599,12 @@ def solve_at(
         A constant added to log10 gamma of each dissolved species (in the
         system's order), e.g. the SIT medium terms sum_k eps(j, k) m_k of
         :func:`pourbaix.physics.sit.medium_terms` [-].
+    background : dict or str, optional
+        Background salts [mol/kg] (e.g. ``"NaCl=1"``); with
+        ``activity_model="pitzer"`` their ions join the system's dissolved
+        species in one Pitzer evaluation
+        (:func:`pourbaix.physics.pitzer.solver_log_gamma`), so the HMW84 binary
+        and ternary terms act between all of them.
 
     Returns
     -------
@@ -539,7 +613,7 @@ def solve_at(
     Raises
     ------
     ConditionsError
-        Non-finite pH or potential.
+        Non-finite pH or potential; Pitzer away from 25 °C or beyond 20 mol/kg.
     EquilibriumError
         No convergence; the message names the point.
 
@@ -555,7 +629,10 @@ def solve_at(
         raise ConditionsError(f"pH and potential must be finite, got {ph}, {potential_v}")
     mu = energies_rt(system, ph, potential_v)
     lg = None
-    if activity_model is not None:
+    composition = None
+    if activity_model is not None and str(activity_model).strip().lower() == "pitzer":
+        composition = _pitzer_function(system, background)
+    elif activity_model is not None:
         from pourbaix.physics import solution
 
         t = system.temperature_c
@@ -574,11 +651,35 @@ def solve_at(
             log_gamma=lg,
             background_ionic_strength=background_ionic_strength,
             start=start,
+            composition_log_gamma=composition,
         )
     except EquilibriumError as exc:
         raise EquilibriumError(
             f"at pH {float(ph):g}, E {float(potential_v):g} V vs SHE: {exc}"
         ) from None
+
+
+_PITZER = {}  # (id(system), background) -> (system, function)
+
+
+def _pitzer_function(system, background):
+    from pourbaix.physics import pitzer
+
+    key = (id(system), repr(background))
+    got = _PITZER.get(key)
+    if got is not None and got[0] is system:
+        return got[1]
+    aq = system.aqueous
+    function = pitzer.solver_log_gamma(
+        [n for n, a in zip(system.names, aq, strict=True) if a],
+        [int(z) for z, a in zip(system.charges, aq, strict=True) if a],
+        background,
+        system.temperature_c,
+    )
+    if len(_PITZER) >= 8:
+        _PITZER.pop(next(iter(_PITZER)))
+    _PITZER[key] = (system, function)
+    return function
 
 
 def sensitivity(system, result, denergies_rt):
