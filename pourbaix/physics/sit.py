@@ -8,7 +8,7 @@ of the NEA-TDB reviews (Guillaumont et al. 2003, Appendix B), in
 ``species_data/activity/sit_nea.csv``; an ion pair with no tabulated value
 gets epsilon = 0 and is reported. The values were typed from memory; the
 tests check those of HCl, NaCl, KCl, CaCl2 and MgCl2 by the NEA-TDB's own
-route to them (the slope of log gamma± + |z+ z-| D against m through the
+route to them (the slope of log gamma± + abs(z+ z-) D against m through the
 mean activity coefficients of Robinson & Stokes 1959, Appendix 8.10; Ciavatta
 1980), within the uncertainty the table gives.
 
