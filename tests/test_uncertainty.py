@@ -185,3 +185,13 @@ def test_band_is_wider_where_the_row_states_a_larger_uncertainty():
     expected = [2 * 1.96 * u / (2 * RT_LN10) for u in (mg.dgf_unc_kj_mol, 3 * mg.dgf_unc_kj_mol)]
     assert widths[1] > 2 * widths[0]
     assert widths == pytest.approx(expected, rel=0.3)  # 200 draws: band edges to a few %
+
+
+def test_species_json_gives_the_stated_uncertainty(capsys):
+    import json
+
+    assert main(["species", "Zn", "--json"]) == 0
+    rows = {(r["name"], r["phase"]): r for r in json.loads(capsys.readouterr().out)}
+    # ZnO: log *Ks0 = 11.12 +/- 0.05 (Powell et al. 2013, from memory): u = 5.708 * 0.05 / 2
+    assert rows[("ZnO", "s")]["dgf_unc_kj_mol"] == pytest.approx(RT_LN10 * 0.05 / 2, abs=0.006)
+    assert "dgf_unc_kj_mol" not in rows[("Zn^2+", "aq")]  # NBS82 states none

@@ -493,7 +493,9 @@ def cmd_species(a):
                 "dgf_kj_mol": s.dgf_kj_mol,
                 "source": s.source,
             }
-            for k in ("dhf_kj_mol", "s_j_molk", "cp_j_molk", "v_cm3_mol", "hkf_source"):
+            for k in (
+                "dgf_unc_kj_mol", "dhf_kj_mol", "s_j_molk", "cp_j_molk", "v_cm3_mol", "hkf_source"
+            ):  # fmt: skip
                 v = getattr(s, k)
                 if v is not None:
                     d[k] = v
