@@ -284,6 +284,40 @@ def _display_polygon(ax, polygon):
     return Polygon(xy)
 
 
+def _convex_sides(ring):
+    """Unit inward normals and offsets of a convex ring's sides, or None if it is not convex.
+
+    ``ring`` is the closed ring (last point = first). A point p lies inside
+    where ``normals @ p - offsets >= 0`` for every side.
+    """
+    pts = ring[:-1] if len(ring) > 1 and np.array_equal(ring[0], ring[-1]) else ring
+    edges = np.roll(pts, -1, axis=0) - pts
+    lengths = np.hypot(edges[:, 0], edges[:, 1])
+    keep = lengths > 1e-9
+    pts, edges, lengths = pts[keep], edges[keep], lengths[keep]
+    if len(pts) < 3:
+        return None
+    turn = (
+        edges[:, 0] * np.roll(edges, -1, axis=0)[:, 1]
+        - edges[:, 1] * np.roll(edges, -1, axis=0)[:, 0]
+    )
+    scale = 1e-9 * lengths.max() ** 2
+    if np.all(turn >= -scale):
+        sign = 1.0  # counter-clockwise
+    elif np.all(turn <= scale):
+        sign = -1.0
+    else:
+        return None
+    normals = sign * np.column_stack([-edges[:, 1], edges[:, 0]]) / lengths[:, None]
+    return normals, np.einsum("ij,ij->i", normals, pts)
+
+
+def _side_distances(sides, points):
+    """Signed distance [px] of each point to each side's line (positive inside)."""
+    normals, offsets = sides
+    return points @ normals.T - offsets[None, :]
+
+
 def _fit_inside(placer, poly_px, w, h, soft_lines=(), hard_lines=()):
     """Centre for a w x h label box inside a display polygon; None if none fits.
 
@@ -298,6 +332,9 @@ def _fit_inside(placer, poly_px, w, h, soft_lines=(), hard_lines=()):
     import shapely
     from shapely import affinity
 
+    x0, y0, x1, y1 = poly_px.bounds
+    if x1 - x0 - 2 * placer.pad < w or y1 - y0 - 2 * placer.pad < h:
+        return None  # the shrunk polygon's bounds lie within these
     shrunk = poly_px.buffer(-placer.pad)
     if shrunk.is_empty or shrunk.geom_type != "Polygon":
         return None
@@ -309,18 +346,32 @@ def _fit_inside(placer, poly_px, w, h, soft_lines=(), hard_lines=()):
     cx, cy = np.meshgrid(gx, gy)
     centres = np.column_stack([cx.ravel(), cy.ravel()])
     boxes = _boxes_at(centres, w, h)
-    ok = shapely.contains(shrunk, shapely.box(boxes[:, 0], boxes[:, 1], boxes[:, 2], boxes[:, 3]))
-    ok &= placer.clear(boxes)
-    if len(hard_lines):
-        ok &= ~_segments_hit_boxes(hard_lines, boxes)
+    ok = placer.clear(boxes)
+    sides = _convex_sides(np.asarray(shrunk.exterior.coords))
+    if sides is not None:  # a convex polygon holds a box when it holds its four corners
+        corners = boxes[:, [[0, 1], [2, 1], [2, 3], [0, 3]]].reshape(-1, 2)
+        ok &= (_side_distances(sides, corners).min(axis=1) >= -1e-9).reshape(-1, 4).all(axis=1)
+    elif ok.any():
+        rows = np.flatnonzero(ok)
+        geoms = shapely.box(boxes[rows, 0], boxes[rows, 1], boxes[rows, 2], boxes[rows, 3])
+        ok[rows] = shapely.contains(shrunk, geoms)
+    if len(hard_lines) and ok.any():
+        rows = np.flatnonzero(ok)
+        ok[rows] = ~_segments_hit_boxes(hard_lines, boxes[rows])
     if not ok.any():
         return None
     k = np.flatnonzero(ok)
     sx = h / max(w, 1e-9)
-    scaled = affinity.scale(poly_px, xfact=sx, yfact=1.0, origin=(0, 0))
-    pts = shapely.points(centres[k, 0] * sx, centres[k, 1])
-    room = shapely.distance(pts, scaled.exterior)
-    cen = scaled.centroid
+    scaled_xy = np.asarray(poly_px.exterior.coords) * np.array([sx, 1.0])
+    scaled_sides = _convex_sides(scaled_xy)
+    if scaled_sides is not None:
+        # inside a convex polygon the distance to its boundary is the least distance to
+        # the lines of its sides
+        room = _side_distances(scaled_sides, centres[k] * np.array([sx, 1.0])).min(axis=1)
+    else:
+        scaled = affinity.scale(poly_px, xfact=sx, yfact=1.0, origin=(0, 0))
+        room = shapely.distance(shapely.points(centres[k, 0] * sx, centres[k, 1]), scaled.exterior)
+    cen = shapely.Polygon(scaled_xy).centroid
     near = np.hypot(centres[k, 0] * sx - cen.x, centres[k, 1] - cen.y)
     score = room - 0.15 * near
     if soft_lines:

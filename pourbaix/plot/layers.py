@@ -55,12 +55,17 @@ def domain_colours(dmap, palette):
 
 
 def fill_domains(ax, dmap, colours, pal, *, reading=False, alpha=1.0, zorder=1.0):
-    """Fill each domain with its tint (hatching corrosion domains for the reading)."""
+    """Fill each domain with its tint (hatching corrosion domains for the reading).
+
+    The axes' limits are set before (``style_axes``): the patches are added as
+    plain artists, without the data-limit update of ``add_patch`` (a third of
+    the cost on a map of a hundred domains).
+    """
     from matplotlib.patches import Polygon as MplPolygon
 
     for k, d in enumerate(dmap.domains):
         xy = np.asarray(d.polygon.exterior.coords)
-        ax.add_patch(
+        ax.add_artist(
             MplPolygon(
                 xy,
                 closed=True,
@@ -74,7 +79,7 @@ def fill_domains(ax, dmap, colours, pal, *, reading=False, alpha=1.0, zorder=1.0
         )
         hatch = HATCH.get(d.state) if reading else None
         if hatch:
-            ax.add_patch(
+            ax.add_artist(
                 MplPolygon(
                     xy,
                     closed=True,
