@@ -234,6 +234,46 @@ def test_steel_maps_by_walk_equal_the_enumeration(metals, ratio):
     assert "multi-parametric" in walked.method
 
 
+def test_ligand_alloy_maps_by_walk_equal_the_enumeration_on_random_systems():
+    # metals, ratio and the ligand's activity drawn at random (seeded), every ligand
+    # family with species for these metals in turn: the walk in
+    # each region of the ligand's predominant species against the enumeration of
+    # every combination matching the ratio (the reference method)
+    rng = np.random.default_rng(1616)
+    pool = ("Fe", "Cr", "Ni", "Cu", "Zn", "Mo", "Mn", "Co")
+    for trial in range(8):
+        metals = tuple(
+            str(m) for m in rng.choice(pool, size=int(rng.integers(2, 4)), replace=False)
+        )
+        ratio = tuple(int(v) for v in rng.integers(1, 100, size=len(metals)))
+        ligand = ("Cl", "S", "C", "NH3", "CN")[trial % 5]
+        ligands = {ligand: float(10 ** rng.uniform(-4, 0))}
+        walked = compute_system_map(metals, ratio=ratio, ligands=ligands, table=TABLE)
+        listed = compute_system_map(
+            metals, ratio=ratio, ligands=ligands, table=TABLE, ratio_method="enumerate"
+        )
+        case = (metals, ratio, ligands)
+        assert _domains(walked) == _domains(listed), case
+        assert _boundaries(walked) == _boundaries(listed), case
+        assert sorted(walked.never_stable) == sorted(listed.never_stable), case
+        assert "in each region of the ligands' predominant species" in walked.method
+        assert len(walked.units) < len(listed.units)
+
+
+def _domains(m):
+    return sorted((tuple(sorted(d.species)), round(d.area, 7)) for d in m.domains)
+
+
+def _boundaries(m):
+    return sorted(
+        (
+            tuple(sorted(b.between)),
+            sorted([np.round(b.start, 6).tolist(), np.round(b.end, 6).tolist()]),
+        )
+        for b in m.boundaries
+    )
+
+
 def test_walk_covers_five_and_more_metals():
     # 316-type steel plus copper, cobalt and titanium: eight metals; the enumeration
     # of up to eight species from the whole table is far out of reach here.

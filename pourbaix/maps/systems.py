@@ -837,10 +837,10 @@ def compute_system_map(
     warn : list of str, optional
         Warnings gathered by the caller.
     ratio_method : {"walk", "enumerate"}
-        Several metals without ligands: walk the optimal bases of the linear
-        programme (multi-parametric LP, cost grows with the domains) or
-        enumerate every combination matching the ratio (the reference).
-        Ligand systems always enumerate.
+        Several metals: walk the optimal bases of the linear programme
+        (multi-parametric LP, cost grows with the domains; with ligands, in
+        each region of the ligands' predominant species) or enumerate every
+        combination matching the ratio (the reference).
     slow_species : {"exclude", "include"}
         Ligand species the data name as not forming on a practical time
         scale (:func:`forms_slowly`, e.g. perchlorate) are left out of the
@@ -957,16 +957,50 @@ def compute_system_map(
     counts = np.array(counts, dtype=float)
     nus = np.array(nus).reshape(len(metal_rows), len(families))
 
+    # each ligand's own map first: inside each of its domains the metal's ligand species
+    # form from the ligand species predominating there
+    water_she = energies.water_lines(ctx)
+    water_sp = energies.water_energy(table, ctx)
+    ligand_maps, ligand_planes, ligand_names, ligand_rows = {}, [], [], []
+    for fam, a in families:
+        lm, rows = _ligand_map(
+            fam,
+            a,
+            ctx,
+            g_atom,
+            table,
+            conditions,
+            water_she,
+            water_sp,
+            ligand_exclude,
+            slow_species == "include",
+        )
+        slow = [n for n in slow_ligand_species(table, fam.name) if slow_species != "include"]
+        if slow:
+            warn.append(
+                f"left out of the {fam.name} ligand's map as not forming on a practical time scale "
+                f"(kinetically inert): {', '.join(slow)}; to include them: --include-slow on the "
+                'command line, slow_species="include" in Python'
+            )
+        ligand_maps[fam.name] = lm
+        ligand_planes.append(np.array([e.plane for e in lm.entries]))
+        ligand_names.append([e.names[0] for e in lm.entries])
+        ligand_rows += rows
+
     # candidates ("units"): single species, or combinations matching the ratio
     r = np.array(ratio_vals if ratio_vals is not None else (1.0,))
     if ratio_method not in ("walk", "enumerate"):
         raise OptionError(f"ratio_method must be walk or enumerate, got {ratio_method!r}")
-    walked = ratio_vals is not None and not families and ratio_method == "walk"
+    walked = ratio_vals is not None and ratio_method == "walk"
     if walked:
         # multi-parametric LP: only the combinations optimal somewhere (Gal & Nedoma 1972)
         costs = np.array([to_frame(tuple(p), off0, off1) for p in phis])
-        walk_regions = parametric_lp.walk(costs, counts, r, conditions.window)
-        combos = parametric_lp.combinations_of(walk_regions)
+        if not families:
+            walk_regions = parametric_lp.walk(costs, counts, r, conditions.window)
+            combos = parametric_lp.combinations_of(walk_regions)
+        else:
+            regions = _ligand_regions(conditions, ligand_planes, ligand_maps)
+            combos = _walk_ligand_regions(costs, counts, nus, r, ligand_planes, regions)
     else:
         combos = ratio_combinations(counts, r)
     if not combos:
@@ -1010,8 +1044,6 @@ def compute_system_map(
     base = np.array(base)
     nu_units = np.array(nu_units).reshape(len(units), len(families))
 
-    water_she = energies.water_lines(ctx)
-    water_sp = energies.water_energy(table, ctx)
     method = [
         f"exact lower envelope of transformed-energy planes (half-space intersection) for the {system} system"
     ]
@@ -1025,6 +1057,7 @@ def compute_system_map(
             + (
                 "; the entries are the optimal bases found by walking the critical regions of the "
                 "multi-parametric programme, Gal & Nedoma 1972"
+                + (" (in each region of the ligands' predominant species)" if families else "")
                 if walked
                 else ""
             )
@@ -1033,32 +1066,7 @@ def compute_system_map(
             "dissolved, else 'passivation' if any is in a solid compound, else 'immunity'; the map's state is "
             f"that of {elements[0]}"
         )
-    all_rows = list(metal_rows)
-    ligand_maps, ligand_planes, ligand_names = {}, [], []
-    for fam, a in families:
-        lm, rows = _ligand_map(
-            fam,
-            a,
-            ctx,
-            g_atom,
-            table,
-            conditions,
-            water_she,
-            water_sp,
-            ligand_exclude,
-            slow_species == "include",
-        )
-        slow = [n for n in slow_ligand_species(table, fam.name) if slow_species != "include"]
-        if slow:
-            warn.append(
-                f"left out of the {fam.name} ligand's map as not forming on a practical time scale "
-                f"(kinetically inert): {', '.join(slow)}; to include them: --include-slow on the "
-                'command line, slow_species="include" in Python'
-            )
-        ligand_maps[fam.name] = lm
-        ligand_planes.append(np.array([e.plane for e in lm.entries]))
-        ligand_names.append([e.names[0] for e in lm.entries])
-        all_rows += rows
+    all_rows = list(metal_rows) + ligand_rows
     if families:
         method.append(
             "predominant-ligand method (Pourbaix 1974, ch. II; Garrels & Christ 1965, ch. 7): each ligand's own map at its total activity ("
@@ -1079,7 +1087,7 @@ def compute_system_map(
     if not families:
         # the walk's regions already tile the window: its envelope needs no second solve
         env = None
-        if walked:
+        if walked:  # (no ligands here)
             env = parametric_lp.envelope_of_regions(walk_regions, base, conditions.window)
         m = build_map(
             conditions,
@@ -1143,6 +1151,56 @@ def _ligand_warnings(sm, families, metal_activity, metal_rows, nus):
             )
 
 
+def _ligand_regions(conditions, ligand_planes, ligand_maps):
+    """Where each combination of the ligands' predominant species holds: (key, polygon) pairs.
+
+    Window ∩ {the key's species lowest for every ligand}, clipped exactly by
+    half planes (the same sets as the overlay of the ligand maps' domains,
+    with vertices from exact line intersections); the key holds one entry
+    index per ligand map.
+    """
+    x0, x1 = conditions.ph_range
+    y0, y1 = conditions.potential_range_v
+    area_tol = _SLIVER * (x1 - x0) * (y1 - y0)
+    window = np.array([[x0, y0], [x1, y0], [x1, y1], [x0, y1]], dtype=float)
+    stable_sets = [sorted({d.entry for d in lm.domains}) for lm in ligand_maps.values()]
+    regions = []
+    for key in itertools.product(*stable_sets):
+        poly = window
+        for f, k in enumerate(key):
+            poly = _cell(poly, ligand_planes[f], k, range(len(ligand_planes[f])))
+            if poly is None:
+                break
+        if poly is not None and abs(_ring_area(poly)) > area_tol:
+            regions.append((tuple(key), poly))
+    return regions
+
+
+def _walk_ligand_regions(costs, counts, nus, ratio, ligand_planes, regions):
+    """The combinations optimal somewhere in the ligand regions, by the walk in each.
+
+    Inside a ligand region each species' energy is its own plane less its
+    ligand units times the predominant ligand species' planes (linear in pH
+    and E), so the fixed-ratio programme there is the one without ligands
+    with these costs (Gal & Nedoma 1972): walked over the region's bounding
+    box (which holds the region), every combination optimal at some point of
+    the region is found. Ordered as :func:`ratio_combinations` orders them.
+    """
+    found = {}
+    for key, poly in regions:
+        eff = costs.copy()
+        for f, k in enumerate(key):
+            eff -= nus[:, f, None] * np.asarray(ligand_planes[f][k])[None, :]
+        (bx0, by0), (bx1, by1) = poly.min(axis=0), poly.max(axis=0)
+        # a sliver of a region still needs a box with room to walk in
+        pad_x = max(0.0, 1e-6 - (bx1 - bx0))
+        pad_y = max(0.0, 1e-6 - (by1 - by0))
+        box = (bx0 - pad_x, bx1 + pad_x, by0 - pad_y, by1 + pad_y)
+        for support, amounts in parametric_lp.optimal_combinations(eff, counts, ratio, box):
+            found.setdefault(support, amounts)
+    return [(s, found[s]) for s in sorted(found, key=lambda s: (len(s), s))]
+
+
 def _overlay_map(
     conditions,
     units,
@@ -1165,20 +1223,7 @@ def _overlay_map(
     x0, x1 = conditions.ph_range
     y0, y1 = conditions.potential_range_v
     area_tol = _SLIVER * (x1 - x0) * (y1 - y0)
-    # Ligand regions: window ∩ {the key's species lowest for every ligand}, clipped
-    # exactly by half planes (the same sets as the overlay of the ligand maps'
-    # domains, with vertices from exact line intersections).
-    window = np.array([[x0, y0], [x1, y0], [x1, y1], [x0, y1]], dtype=float)
-    stable_sets = [sorted({d.entry for d in lm.domains}) for lm in ligand_maps.values()]
-    regions = []
-    for key in itertools.product(*stable_sets):
-        poly = window
-        for f, k in enumerate(key):
-            poly = _cell(poly, ligand_planes[f], k, range(len(ligand_planes[f])))
-            if poly is None:
-                break
-        if poly is not None and abs(_ring_area(poly)) > area_tol:
-            regions.append((tuple(key), poly))
+    regions = _ligand_regions(conditions, ligand_planes, ligand_maps)
 
     pieces = {}
     for key, rpoly in regions:
