@@ -242,7 +242,38 @@ K_NOTES = {
     ("SeO3^2-", "aq"): (
         "; with HSeO3- of this table gives pKa2(H2SeO3) = 7.29 where Smith & Martell list 8.32: the "
         "selenite values of the file disagree with the measured constant, so the HSeO3-/SeO3^2- "
-        "boundary sits about 1 pH unit low; kept, as read"
+        "boundary sits about 1 pH unit low. The NEA-TDB selenium review (Olin et al. 2005) selects "
+        "about 8.36 (recalled, not read from the printed volume). Every shipped compilation read "
+        "here (LLNL, Thermoddem, the CRC table of aqueous ions) prints these NBS82 selenite values, "
+        "and the series' alkaline couples agree with them: SeO3^2-/Se -0.357 V here (series "
+        "-0.366 V) and SeO4^2-/SeO3^2- 0.030 V (series 0.05 V); SeO3^2- moved to pKa2 8.36 would "
+        "put them 16 mV and 32 mV further off. Kept, as read"
+    ),
+    ("Bi^3+", "aq"): (
+        "; the bismuth system mixes two compilations: the ions come from the SUPCRT set (Shock et "
+        "al. 1997, Bi3+ 95.7 kJ/mol), the solids Bi2O3 and BiOCl from the CRC table (NBS82, where "
+        "Bi3+ is 82.8). The solids agree with the series on their own (Bi2O3/Bi -0.46 V, "
+        "BiOCl/Bi 0.158 V, tests/test_new_elements_e0.py); the ion does not: log *Ks(1/2 Bi2O3 + "
+        "3H+ = Bi3+ + 1.5H2O) is 2.30 with this value, 4.56 with NBS82 throughout, and 3.45 with "
+        "the series' E0(Bi3+/Bi) 0.308 V, so the Bi2O3/Bi3+ line and the BiO+ and hydroxo "
+        "fields (tied to Bi3+ by Shock et al.'s hydrolysis constants) carry about 1 log unit of "
+        "doubt; the SUPCRT set is kept whole, as the alkaline species (HBiO2, BiO2-) exist only there"
+    ),
+    ("Pt^2+", "aq"): (
+        "; the platinum system takes its ions and chloride and sulfate complexes from one "
+        "compilation (Sassani & Shock 1998) and its sulfides PtS and PtS2 from the CRC table "
+        "(NBS82, where Pt2+ is 254.8 kJ/mol, giving E0(Pt2+/Pt) 1.320 V); the series' 1.18 V "
+        "agrees with neither: the Pt2+ field is uncertain by that much. No platinum oxide is in these compilations, so the map has no passive film "
+        "of platinum"
+    ),
+    ("Tl^+", "aq"): (
+        "; the thallium system mixes SUPCRT ions (Shock & Helgeson 1988 for Tl+ and Tl3+, Shock "
+        "et al. 1997 and Sverjensky et al. 1997 for the hydroxo, chloro and fluoro complexes) with "
+        "CRC solids (NBS82); Tl+ and Tl3+ equal the NBS82 values of the CRC table of aqueous ions "
+        "(-32.4 and 214.6 kJ/mol), so ions and solids form one set: E0(Tl+/Tl) -0.3356 V (series "
+        "-0.336), E0(TlCl/Tl) -0.556 V (series -0.5568) and log Ksp(TlCl) -3.73, as the CRC "
+        "table of solubility products gives (1.86e-4, recalled; tests/test_system_consistency.py). Thallium(III) "
+        "oxide is in none of the compilations read here, so the Tl(III) field is dissolved only"
     ),
     ("SrSO4:celestite", "s"): (
         "; gives log Ksp = -5.66 where Reardon & Armstrong 1987 measured -6.63: the file's Sr^2+ "
@@ -274,6 +305,16 @@ K_NOTES = {
     ),
 }
 E0_SPECIAL = {
+    ("H2Se", "aq"): (
+        "; 22.2 kJ/mol is the NBS82 value (the LLNL file reprints it); the series' -0.399 V "
+        "implies dG(H2Se,aq) = 77.0 kJ/mol, an older value none of the compilations read here "
+        "holds: kept"
+    ),
+    ("Se^2-", "aq"): (
+        "; the CRC table of aqueous ions lists the same 129.3 kJ/mol (NBS82), so the handbook's "
+        "own two tables disagree: the series' -0.924 V implies dG(Se2-) = 178.3 kJ/mol, 49 kJ/mol "
+        "above every compilation read here: kept"
+    ),
     ("SiO2:quartz", "s"): (
         "; the series' 0.857 V cannot hold: it would make silicon nobler than copper, and "
         "dG(SiO2) of every compilation gives about -0.99 V"
@@ -1101,9 +1142,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
                 float(row[5]) if row[5] else None,
                 entropies,
             )
-        cols, rows = _with_uncertainty(
-            *_with_parameters(HEADER, rows, index, transitions), stated
-        )
+        cols, rows = _with_uncertainty(*_with_parameters(HEADER, rows, index, transitions), stated)
         out[f"{stem}.csv"] = _csv_text(cols, rows)
     out["transitions/phase_transitions.csv"] = _csv_text(TRANSITIONS_HEADER, transitions)
     src = io.StringIO()
