@@ -105,6 +105,23 @@ def test_every_imported_value_equals_its_source(run_import):
                 _gibbs_from_log_k(reaction, log_k), abs=1e-6
             ), where
             continue
+        if " Thermoddem PHREEQC_ThermoddemV1.10_15Dec2020.dat species " in note:
+            counted["thermoddem"] += 1
+            name = re.search(r"species '([^']+)'", note).group(1)
+            text = (run_import.pygcc_db() / "PHREEQC_ThermoddemV1.10_15Dec2020.dat").read_text(
+                encoding="latin-1"
+            )
+            m = re.search(r"\n(.*) = " + re.escape(name) + r"( \+ .*)?\n.*\n\s*log_k\s+(\S+)", text)
+            # formed species = left side - other right-side terms - RT ln10 log K
+            pairs = [(1.0, t) for t in m.group(1).split(" + ")]
+            pairs += [(-1.0, t) for t in (m.group(2) or "").split(" + ")[1:]]
+            reaction = []
+            for sign, term in pairs:
+                c, n = re.match(r"([\d.]+)(\S+)", term.strip()).groups()
+                reaction.append((-sign * float(c), _thermoddem_name(n)))
+            expected = -_gibbs_from_log_k(reaction, float(m.group(3)))
+            assert float(row["dgf_kj_mol"]) == pytest.approx(expected, abs=1e-6), where
+            continue
         if " LLNL thermo.com.dat entry " in note and "dG converted from the entry's log K" in note:
             counted["log K"] += 1
             name = re.search(r"entry '([^']+)'", note).group(1)

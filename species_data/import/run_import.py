@@ -55,7 +55,11 @@ sys.path.insert(0, str(HERE.parents[1]))
 
 from llnl_file import read_llnl, read_llnl_references  # noqa: E402
 from supcrt_file import NO_VALUE, read_supcrt, read_supcrt_references  # noqa: E402
-from thermoddem_file import read_thermoddem_phases, read_thermoddem_references  # noqa: E402
+from thermoddem_file import (  # noqa: E402
+    read_thermoddem_phases,
+    read_thermoddem_references,
+    read_thermoddem_species,
+)
 
 from pourbaix.errors import FormulaError  # noqa: E402
 from pourbaix.tables.formula import parse_formula  # noqa: E402
@@ -175,6 +179,36 @@ FROM_THERMODDEM = {
 # species, when those differ from the file's by more than 1 kJ/mol in all (the file derived the
 # dG from the constant with its own values; iron(II) and iron(III) differ by 12.6 kJ/mol)
 LOGK_CODES = ("76smi/mar", "82hog", "79lan", "72nri 1", "75kas/bor", "79mat/spo", "89mar/smi")
+# solids of the new elements that only the Thermoddem file holds: table stem -> (phase, code
+# printed, code cited, why)
+THERMODDEM_SOLIDS = {
+    "thallium": (
+        (
+            "Tl2O3",
+            "Internal calculation",
+            "84pan/stu",
+            "the file derives this log K from the dH and S of Pankratz, Stuve & Gokcen 1984 "
+            "(84pan/stu); thallium(III) oxide is in no other compilation read here, and its Tl3+ "
+            "agrees with this table's (0.5O2 + 2H+ + Tl+ = Tl3+ + H2O: log_k -0.281 there, -0.30 "
+            "here)",
+        ),
+    ),
+}
+# aqueous species whose SUPCRT value (speq21.dat) is a defect, read instead from the Thermoddem
+# file's formation constant: table stem -> (species, code printed, code cited, why)
+THERMODDEM_AQUEOUS = {
+    "thallium": (
+        (
+            "TlOH",
+            "09xio",
+            "09xio",
+            "replaces the SUPCRT entry 'TlOH(aq)' (G -65550 cal/mol, Shock et al. 1997), which "
+            "gives log *beta1(Tl+ + H2O = TlOH + H+) = +0.83 with this table's Tl+, so that TlOH(aq) "
+            "held the whole thallium map from pH -1; thallium(I) hydrolyses only in strong alkali "
+            "(this constant, -13.3)",
+        ),
+    ),
+}
 # LLNL minerals given our formula text and form: the file's formula line misses an element, or
 # its name is not the mineral's name (LLNL name -> formula, form, why)
 MINERAL_NAMES = {
@@ -272,8 +306,8 @@ K_NOTES = {
         "CRC solids (NBS82); Tl+ and Tl3+ equal the NBS82 values of the CRC table of aqueous ions "
         "(-32.4 and 214.6 kJ/mol), so ions and solids form one set: E0(Tl+/Tl) -0.3356 V (series "
         "-0.336), E0(TlCl/Tl) -0.556 V (series -0.5568) and log Ksp(TlCl) -3.73, as the CRC "
-        "table of solubility products gives (1.86e-4, recalled; tests/test_system_consistency.py). Thallium(III) "
-        "oxide is in none of the compilations read here, so the Tl(III) field is dissolved only"
+        "table of solubility products gives (1.86e-4, recalled; tests/test_system_consistency.py); "
+        "thallium(III) oxide, Tl2O3, is read from the Thermoddem file (see its row)"
     ),
     ("SrSO4:celestite", "s"): (
         "; gives log Ksp = -5.66 where Reardon & Armstrong 1987 measured -6.63: the file's Sr^2+ "
@@ -996,6 +1030,15 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
         else:
             report.append(f"addition {name}: not in the file")
 
+    thermoddem_aq = read_thermoddem_species(pygcc_db() / THERMODDEM_FILE)
+    for stem, species in THERMODDEM_AQUEOUS.items():
+        for choice in species:
+            row = _thermoddem_aqueous_row(choice, thermoddem_aq, gibbs_now[0])
+            tables[stem].append(row)
+            seen.add((row[0], "aq"))
+            hydrates[water_signature(parse_formula(row[0]))] = row[0]
+            thermoddem_used.add(choice[2])
+            report.append(f"replaced SUPCRT {choice[0]}(aq): log K of Thermoddem ({choice[2]})")
     crc = _read_crc(crc_solids_file())
     sup_path = pygcc_db() / SUPCRT_FILE
     sup_refs = supcrt_citations(read_supcrt_references(sup_path))
@@ -1082,6 +1125,10 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
                     "the LLNL file has no value for this solid",
                 ]
             )
+    for stem, solids in THERMODDEM_SOLIDS.items():
+        for choice in solids:
+            tables[stem].append(_thermoddem_row(None, choice, thermoddem, gibbs_now[0]))
+            thermoddem_used.add(choice[2])
     for symbol, (cas, phase) in CRC_ELEMENTS.items():
         stem = NEW_ELEMENTS[symbol]
         text = symbol + ("2" if phase == "g" else "")
@@ -1336,14 +1383,43 @@ def _from_logk(row: list[str], entry, gibbs: dict) -> list[str]:
     return out
 
 
+def _thermoddem_aqueous_row(choice, species, gibbs) -> list[str]:
+    """Row of an aqueous species from its Thermoddem formation constant and these tables."""
+    name, printed_code, cited, why = choice
+    block = species[name]
+    if block.source != printed_code:
+        raise SystemExit(f"Thermoddem {name}: reference {block.source}, not {printed_code}")
+    text = thermoddem_species(name)[0]
+    used = []
+    # formed = reactants - other products: dG = sum(reactants) - sum(others) - RT ln10 log K
+    total = -RT_LN10 * float(block.logk)
+    for sign, side in ((1, block.reactants), (-1, block.products)):
+        for coefficient, other in side:
+            key = thermoddem_species(other)
+            if key != ("H^+", "aq"):
+                total += sign * float(coefficient) * float(gibbs[key])
+                used.append(f"dG({key[0]}) {gibbs[key]}")
+    reaction = " + ".join(f"{c}{n}" for c, n in block.reactants) + f" = {name}"
+    reaction += "".join(f" + {c}{n}" for c, n in block.products)
+    note = (
+        f"read by species_data/import from Thermoddem {THERMODDEM_FILE} species '{name}' "
+        f"({reaction}, log_k {block.logk}; reference code {block.source}), converted to dG with "
+        f"{', '.join(used)} of these tables; {why}"
+    )
+    return [text, "aq", "", fmt(total), "", "", "", "", "", "", "", "", "", cited, note]
+
+
 def _thermoddem_row(entry, choice, phases, gibbs) -> list[str]:
     """Row of an LLNL mineral from the log K the Thermoddem file prints for it."""
     phase_name, printed_code, cited, why = choice
     phase = phases[phase_name]
     if phase.source != printed_code:
         raise SystemExit(f"Thermoddem {phase_name}: reference {phase.source}, not {printed_code}")
-    text, _, form = formula_text(entry.name, entry.section, entry.formula)
-    text, form, _ = MINERAL_NAMES.get(entry.name, (text, form, ""))
+    if entry is None:  # a solid only this file holds
+        text, form = parse_formula(phase.formula).text, ""
+    else:
+        text, _, form = formula_text(entry.name, entry.section, entry.formula)
+        text, form, _ = MINERAL_NAMES.get(entry.name, (text, form, ""))
     used = []
     total = RT_LN10 * float(phase.logk)
     for sign, side in ((1, phase.products), (-1, phase.reactants)):
@@ -1355,14 +1431,18 @@ def _thermoddem_row(entry, choice, phases, gibbs) -> list[str]:
                 used.append(f"dG({key[0]}) {gibbs[key]}")
     reaction = " + ".join([phase.formula] + [f"{c}{n}" for c, n in phase.reactants])
     reaction += " = " + " + ".join(f"{c}{n}" for c, n in phase.products)
-    old = to_kj(*entry.value("delG0f"))
     note = (
         f"read by species_data/import from Thermoddem {THERMODDEM_FILE} phase '{phase_name}' "
         f"({reaction}, log_k {phase.logk}; reference code {phase.source}), converted to dG with "
-        f"{', '.join(used)} of these tables; {why}: the LLNL entry '{entry.name}' (reference "
-        f"code {entry.source}, delG0f {' '.join(entry.value('delG0f'))}) gives log K "
-        f"{float(phase.logk) + (old - total) / RT_LN10:.2f} for this reaction with these tables"
+        f"{', '.join(used)} of these tables; {why}"
     )
+    if entry is not None:
+        old = to_kj(*entry.value("delG0f"))
+        note += (
+            f": the LLNL entry '{entry.name}' (reference code {entry.source}, delG0f "
+            f"{' '.join(entry.value('delG0f'))}) gives log K "
+            f"{float(phase.logk) + (old - total) / RT_LN10:.2f} for this reaction with these tables"
+        )
     return [text, "s", form, fmt(total), "", "", "", "", "", "", "", "", "", cited, note]
 
 

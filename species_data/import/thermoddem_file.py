@@ -1,6 +1,8 @@
 """Read mineral solubility constants from the Thermoddem PHREEQC data file as printed.
 
-The ``PHASES`` section holds one block per mineral: its name, its dissolution
+The ``SOLUTION_SPECIES`` section holds one block per aqueous species: its
+formation reaction from the master species (``1.000Tl+ + 1.000H2O = TlOH +
+1.000H+``), ``log_k`` at 25 C and the same reference comment. The ``PHASES`` section holds one block per mineral: its name, its dissolution
 reaction (``PbHPO4 + 1.000H+ = 1.000H2PO4- + 1.000Pb+2``), ``log_k`` at
 25 C and a ``#References = LogK/DGf: CODE;`` comment naming the study the
 constant comes from; the file's closing comment lines list each code with its
@@ -23,7 +25,12 @@ import re
 from dataclasses import dataclass
 from pathlib import Path
 
-__all__ = ["ThermoddemPhase", "read_thermoddem_phases", "read_thermoddem_references"]
+__all__ = [
+    "ThermoddemPhase",
+    "read_thermoddem_phases",
+    "read_thermoddem_references",
+    "read_thermoddem_species",
+]
 
 _REFERENCE = re.compile(r"^#\s+(\d\d[a-z]?[a-z]+(?:/[a-z]+)?)\s{2,}(.+?)\s*$")
 
@@ -103,6 +110,43 @@ def read_thermoddem_phases(path: str | Path) -> dict[str, ThermoddemPhase]:
             k = j
             continue
         k += 1
+    return out
+
+
+def read_thermoddem_species(path: str | Path) -> dict[str, ThermoddemPhase]:
+    """Return product -> block of every formation reaction in ``SOLUTION_SPECIES``.
+
+    Each block is returned in the form of a mineral's: ``formula`` is the species
+    formed (the first term right of ``=``), ``reactants`` the left side and
+    ``products`` the other terms of the right side.
+    """
+    lines = Path(path).read_text(encoding="latin-1").splitlines()
+    start = next(k for k, t in enumerate(lines) if t.strip() == "SOLUTION_SPECIES")
+    out: dict[str, ThermoddemPhase] = {}
+    for k in range(start + 1, len(lines)):
+        text = lines[k]
+        if text.strip() == "PHASES" or re.fullmatch(r"[A-Z]+(_[A-Z]+)+", text.strip()):
+            break
+        if " = " not in text or text.startswith((" ", "#", "\t")):
+            continue
+        left, right = text.split(" = ", 1)
+        formed, *others = _side(right)
+        logk, source = "", ""
+        j = k + 1
+        while j < len(lines) and lines[j].strip():
+            body = lines[j].strip()
+            if body.startswith("log_k"):
+                logk = body.split()[1]
+            m = re.search(r"LogK/DGf:\s*([^;]+);", body)
+            if m and not source:
+                source = m.group(1).strip()
+            j += 1
+        out.setdefault(
+            formed[1],
+            ThermoddemPhase(
+                formed[1], k + 1, formed[1], tuple(_side(left)), tuple(others), logk, source
+            ),
+        )
     return out
 
 
