@@ -291,3 +291,38 @@ def test_cli_balanced_map_refuses_options_of_the_plane_method(tmp_path, capsys):
     assert code == 2
     assert "--slider-temperature" in capsys.readouterr().err
     assert not out.exists()
+
+
+def test_lines_list_the_traced_curves(au_cn):
+    from pourbaix.maps.lines import boundary_equations
+
+    rows = boundary_equations(au_cn)
+    # one row per traced curve, each a polyline whose chords are the map's boundary segments
+    assert all(len(r["points"]) >= 2 and r["e_at_ph0_v"] is None for r in rows)
+    assert sum(len(r["points"]) - 1 for r in rows) == len(au_cn.boundaries)
+    pairs = {frozenset(b.between) for b in au_cn.boundaries}
+    assert {frozenset(r["between"]) for r in rows} == pairs
+    assert len(rows) < len(au_cn.boundaries) / 5  # curves, not chords
+    assert rows[0]["tolerance"] == {"ph": 1e-3, "potential_v": 1e-4}
+    # the Au | Au(CN)2- curve crosses pH 10.5 where the domains change, within the tolerance
+    # (the solver itself, checked against scipy and hand calculation in test_equilibrium)
+    row = next(r for r in rows if set(r["between"]) == {"Au", "Au(CN)2^-"})
+    pts = np.array(row["points"])
+    order = np.argsort(pts[:, 0])
+    e = float(np.interp(10.5, pts[order, 0], pts[order, 1]))
+    system = au_cn.system
+    gold = system.index("Au")
+    assert solve_at(system, 10.5, e - 1e-4).present[gold]
+    assert not solve_at(system, 10.5, e + 1e-4).present[gold]
+
+
+def test_cli_lines_of_a_balanced_map(capsys):
+    args = ["lines", "Au", "--total", "Au=1e-5", "--total", "CN=1e-3", "--balance"]
+    assert main([*args, "--ph", "8", "12", "--potential", "-1", "0"]) == 0
+    printed = capsys.readouterr().out
+    assert "traced curve" in printed and "0.1 mV" in printed
+    assert main([*args, "--ph", "8", "12", "--potential", "-1", "0", "--json"]) == 0
+    out = capsys.readouterr().out
+    rows = json.loads(out[out.index("[") :])
+    assert [set(r["between"]) for r in rows] == [{"Au", "Au(CN)2^-"}]
+    assert len(rows[0]["points"]) > 5

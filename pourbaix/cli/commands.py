@@ -437,6 +437,10 @@ def cmd_lines(a):
         elif r.get("log_k") is not None:
             print(f"    log K = {r['log_k']:.3f};  {r['nernst']}")
         print(f"    line: {r['line']}")
+        if r.get("points"):  # a traced curve (mass-balanced map): its vertices, pH and E
+            pts = [f"({x:.3f}, {y:+.4f})" for x, y in r["points"]]
+            for k in range(0, len(pts), 5):
+                print("      " + " ".join(pts[k : k + 5]))
     w = dmap.water
     print(
         f"\nwater: O2/H2O  E = {w['oxygen'][0]:+.4f} {w['oxygen'][1]:+.5f} pH;  H2O/H2  E = {w['hydrogen'][0]:+.4f} {w['hydrogen'][1]:+.5f} pH  (V vs {ref})"
@@ -692,6 +696,9 @@ def build_parser():
     )
     _add_conditions(ln)
     ln.add_argument("--json", action="store_true", help="print JSON")
+    from pourbaix.cli.balance import add_balance_options
+
+    add_balance_options(ln)  # a mass-balanced map lists its traced curves
     add_report_option(ln)
     ln.set_defaults(func=cmd_lines, window=True)
 

@@ -22,13 +22,71 @@ import numpy as np
 from pourbaix.errors import ConditionsError, OptionError
 from pourbaix.maps.result import Boundary, Domain, DomainMap, Entry, ProbeResult, state_of
 
-__all__ = ["CRITERION", "BalancedMap", "compute_balanced_map", "point_key"]
+__all__ = ["CRITERION", "BalancedMap", "TracedCurve", "compute_balanced_map", "point_key"]
 
 #: How the domains of a mass-balanced map are defined ({metal} is filled in per map).
 CRITERION = (
     "the solid phases present where the totals saturate them (phase rule); elsewhere the "
     "dissolved species holding the largest share of the dissolved {metal}"
 )
+
+
+@dataclass(frozen=True)
+class TracedCurve:
+    """One traced boundary of a mass-balanced map.
+
+    Attributes
+    ----------
+    between : tuple of str
+        The two domains (names as in ``domains``), the first on the right of
+        the direction of ``points``.
+    points : numpy.ndarray, shape (k, 2)
+        Vertices (pH, E vs the map's reference) [-, V]; each lies within the
+        map's tolerance of the boundary, and so does each chord's midpoint.
+    """
+
+    between: tuple
+    points: np.ndarray
+
+
+def _chain(segments, names):
+    """Join the traced pieces of each pair of domains into polylines, end to end.
+
+    Pieces of one boundary share their end points exactly (neighbouring cells
+    share their edge crossings), so they are chained by exact coordinates.
+    """
+    pieces = {}
+    for ka, kb, pts in segments:
+        if len(pts) < 2:
+            continue
+        a, b = names[ka], names[kb]
+        if (b, a) in pieces or (a > b and (a, b) not in pieces):
+            a, b, pts = b, a, np.asarray(pts)[::-1]
+        pieces.setdefault((a, b), []).append([tuple(map(float, p)) for p in pts])
+    curves = []
+    for pair, todo in pieces.items():
+        starts = {}
+        for k, line in enumerate(todo):
+            starts.setdefault(line[0], []).append(k)
+        used = [False] * len(todo)
+        ends = {line[-1] for line in todo}
+        # begin where no piece ends (a curve's free end), then anywhere left (closed curves)
+        order = [k for k, line in enumerate(todo) if line[0] not in ends] + list(range(len(todo)))
+        for k in order:
+            if used[k]:
+                continue
+            used[k] = True
+            line = list(todo[k])
+            while True:
+                nxt = next((j for j in starts.get(line[-1], ()) if not used[j]), None)
+                if nxt is None:
+                    break
+                used[nxt] = True
+                line += todo[nxt][1:]
+            clean = [line[0]] + [q for p, q in zip(line[:-1], line[1:], strict=True) if q != p]
+            if len(clean) >= 2:
+                curves.append(TracedCurve(pair, np.array(clean)))
+    return tuple(curves)
 
 
 @dataclass(repr=False)
@@ -47,6 +105,9 @@ class BalancedMap(DomainMap):
         Equilibrium solves made to trace the map.
     tolerance : tuple of float
         Accuracy of boundary points (pH, V).
+    curves : tuple of TracedCurve
+        The traced boundaries, each a polyline between two domains (the
+        ``boundaries`` are its chords, one per segment).
     """
 
     totals: dict = field(default_factory=dict)
@@ -54,6 +115,7 @@ class BalancedMap(DomainMap):
     system: object = None
     solves: int = 0
     tolerance: tuple = (1e-3, 1e-4)
+    curves: tuple = ()
     _solver: object = None
     _names: dict = field(default_factory=dict)
     _states: dict = field(default_factory=dict)
@@ -576,6 +638,7 @@ def compute_balanced_map(
         system=system,
         solves=traced.evaluations + extra,
         tolerance=(tol_ph, tol_v),
+        curves=_chain(traced.segments, names),
         _solver=solve,
         _names=names,
         _states=states,

@@ -61,10 +61,15 @@ def boundary_equations(dmap):
     eq. 2.1.38), k = R T ln10 / F. The line on the map already includes the
     activities; E0 is recovered from it by adding back the activity term.
     Assemblage boundaries (ligand and several-metal maps) are listed with
-    their line only.
+    their line only. A mass-balanced map's boundaries are curves: each is
+    listed once, as its traced polyline (``points``, vs the map's reference)
+    with the tolerance it was traced to (``tolerance``: pH and V), and no
+    single reaction or Nernst line.
     """
     from pourbaix.physics.reactions import balance_pair
 
+    if getattr(dmap, "curves", None):
+        return _curve_rows(dmap)
     by_name = _species_by_name(dmap)
     k = float(_nernst(dmap))
     c = dmap.conditions
@@ -97,6 +102,36 @@ def boundary_equations(dmap):
             if rx is not None:
                 row.update(_describe(rx, by_name, b, c, k))
         rows.append(row)
+    return rows
+
+
+def _curve_rows(dmap):
+    """Rows of a mass-balanced map: one per traced curve."""
+    by_name = _species_by_name(dmap)
+    tol_ph, tol_v = dmap.tolerance
+    ref = dmap.conditions.reference
+    rows = []
+    for curve in dmap.curves:
+        pts = np.asarray(curve.points, dtype=float)
+        (x0, y0), (x1, y1) = pts[0], pts[-1]
+        rows.append(
+            {
+                "between": list(curve.between),
+                "e_at_ph0_v": None,
+                "slope_v_per_ph": None,
+                "ph": None,
+                "nernst_v": float(_nernst(dmap)),
+                "reference": ref,
+                "points": [[float(x), float(y)] for x, y in pts],
+                "tolerance": {"ph": float(tol_ph), "potential_v": float(tol_v)},
+                "line": (
+                    f"traced curve, {len(pts)} points from pH {x0:.3f}, E {y0:+.4f} V to "
+                    f"pH {x1:.3f}, E {y1:+.4f} V (V vs {ref}); every point and chord midpoint "
+                    f"within {tol_ph:g} pH and {tol_v * 1000:g} mV of the boundary"
+                ),
+                "routes": {n: by_name[n].route for n in curve.between if n in by_name},
+            }
+        )
     return rows
 
 
