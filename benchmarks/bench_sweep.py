@@ -1,6 +1,6 @@
 """Sweeps: 10^4 iron maps batched against one compute_map call each; a Dask LocalCluster against local.
 
-Run:  python benchmarks/bench_sweep.py  [--repeat N] [--maps N] [--skip-cluster]
+Run:  python benchmarks/bench_sweep.py  [--repeat N] [--maps N] [--skip-cluster] [--alloy-only]
 
 Prints:
 - maps per second for 10^4 iron maps (100 temperatures x 100 activities):
@@ -12,7 +12,10 @@ Prints:
   building the planes and solving them;
 - the whole sweep a user runs (pourbaix.sweep, 10^4 maps, local processes)
   and the same sweep with a 2-worker dask.distributed LocalCluster, with
-  the ratio of their times.
+  the ratio of their times;
+- an alloy sweep (Fe-Cr-Ni over 24 ratios x 3 temperatures, one process):
+  one map per temperature and a walk per ratio (the default) against one
+  compute_map call per grid point (the route before), with the ratio.
 Medians after a warm-up. Target (issue 16): 10^4 iron maps in <= 2 s on
 this 2-core machine. No assertions: this prints figures.
 """
@@ -42,7 +45,11 @@ def main(argv=None):
     p.add_argument("--maps", type=int, default=10_000, help="maps in the grid (a square number)")
     p.add_argument("--sample", type=int, default=200, help="maps timed one call each")
     p.add_argument("--skip-cluster", action="store_true", help="leave out the LocalCluster run")
+    p.add_argument("--alloy-only", action="store_true", help="only the alloy sweep")
     a = p.parse_args(argv)
+    if a.alloy_only:
+        bench_alloy_sweep(a.repeat)
+        return
 
     from pourbaix.maps.compute import compute_map
     from pourbaix.solve import batch
@@ -125,6 +132,39 @@ def main(argv=None):
         f"  pourbaix.sweep, 2-worker LocalCluster: {t_cluster:6.2f} s  {n / t_cluster:10.0f} maps/s"
     )
     print(f"  ratio cluster / local: {t_cluster / t_local:6.2f}")
+    bench_alloy_sweep(a.repeat)
+
+
+def bench_alloy_sweep(repeat):
+    """An alloy sweep by ratio (one map per condition, a walk per ratio) against map by map."""
+    from pourbaix.analyses import sweep as sweep_module
+
+    fe = np.linspace(50, 80, 24)
+    ratios = [f"{f:g}:{(100 - f) * 0.6:g}:{(100 - f) * 0.4:g}" for f in fe]
+    kw = dict(
+        systems=["Fe Cr Ni"],
+        ratio=ratios,
+        temperature_c=[25.0, 80.0, 150.0],
+        at=[(7.0, -0.5), (9.0, 0.2)],
+        passive_ph=9.0,
+        workers=1,
+    )
+    n = len(ratios) * 3
+    t_ratio = median_time(lambda: sweep_module.sweep(**kw), repeat)
+    by_ratio = sweep_module._by_ratio
+    sweep_module._by_ratio = lambda spec, system: False  # the map-by-map route
+    try:
+        t_maps = median_time(lambda: sweep_module.sweep(**kw), repeat)
+    finally:
+        sweep_module._by_ratio = by_ratio
+    print(
+        f"alloy sweep, Fe-Cr-Ni over {len(ratios)} ratios x 3 temperatures ({n} maps, 1 process):"
+    )
+    print(
+        f"  one map per temperature, a walk per ratio: {t_ratio:6.2f} s  {n / t_ratio:8.1f} maps/s"
+    )
+    print(f"  one compute_map per grid point:            {t_maps:6.2f} s  {n / t_maps:8.1f} maps/s")
+    print(f"  ratio: {t_maps / t_ratio:6.2f}x")
 
 
 if __name__ == "__main__":

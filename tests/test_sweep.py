@@ -47,7 +47,8 @@ def check_against_single_maps(ds, system, rng, n, extra=None):
         ref = single.probe(ph, e)
         assert here["species"].values.tolist() == list(ref.species)
         assert here["state"].values.tolist() == list(ref.state)
-        assert here["neighbour_up"].values.tolist() == list(ref.neighbour_up)
+        for key in ("neighbour_up", "neighbour_down", "neighbour_acid", "neighbour_alkaline"):
+            assert here[key].values.tolist() == list(getattr(ref, key)), key
         for key in ("margin_up_v", "margin_down_v", "margin_acid_ph", "margin_alkaline_ph"):
             np.testing.assert_allclose(here[key].values, getattr(ref, key), atol=1e-9)
         areas = {}
@@ -121,6 +122,44 @@ def test_map_by_map_sweep_equals_single_maps_for_alloys_and_ligands():
         workers=1,
     )
     check_against_single_maps(ds, "Cu", rng, 3)
+
+
+def test_alloy_sweep_maps_once_per_condition_and_walks_each_ratio(monkeypatch):
+    import pourbaix.maps.compute as compute_module
+
+    calls = []
+    real = compute_module.compute_map
+
+    def counted(*args, **kwargs):
+        calls.append(kwargs.get("ratio"))
+        return real(*args, **kwargs)
+
+    monkeypatch.setattr(compute_module, "compute_map", counted)
+    ds = sweep(
+        systems=["Fe Cr Ni"],
+        ratio=["70:19:11", "60:25:15", "50:30:20", "20:50:30"],
+        temperature_c=[25.0, 80.0],
+        activity=[1e-6, 1e-4],
+        at=POINTS,
+        passive_ph=9.0,
+        workers=1,
+    )
+    monkeypatch.undo()
+    assert len(calls) == 4  # one map per (temperature, activity), not one per grid point (16)
+    check_against_single_maps(ds, "Fe Cr Ni", np.random.default_rng(163), 5)
+
+
+def test_alloy_chunks_hold_every_ratio_of_a_condition():
+    # ratio is the first grid dimension: a condition's points are rest + k * stride
+    for n_ratios, stride, step in ((4, 6, 16), (20, 3, 16), (1, 40, 16)):
+        tasks = sweep_module._ratio_tasks(0, n_ratios * stride, n_ratios, step)
+        flats = [f for _, _, chunk in tasks for f in chunk]
+        assert sorted(flats) == list(range(n_ratios * stride))  # every point once
+        assert len({start for _, start, _ in tasks}) == len(tasks)  # chunk names unique
+        if n_ratios <= step:
+            for _, _, chunk in tasks:
+                rests = {f % stride for f in chunk}
+                assert len(chunk) == n_ratios * len(rests)  # whole groups only
 
 
 def test_interrupted_sweep_resumes_where_it_stopped(tmp_path, monkeypatch):

@@ -16,8 +16,15 @@ needs rather than the maps themselves:
 
 Grid points whose maps share a species set (one element with water, any
 temperature, activity or ionic strength) are solved as batches by
-:mod:`pourbaix.solve.batch`; the others map by map with
-:func:`pourbaix.maps.compute.compute_map`. The grid is cut into chunks that
+:mod:`pourbaix.solve.batch`. Alloy points (several metals at a ratio, no
+ligands) take one map per temperature, amount and ionic strength and a walk
+of the linear programme per ratio (:func:`pourbaix.maps.systems.units_at_ratio`),
+the answers read from the assemblages' planes with the same batch functions:
+the species do not change with the ratio, but the optimal combinations do,
+so each ratio still needs its walk (most of an alloy map's time). Ligand
+systems go map by map with :func:`pourbaix.maps.compute.compute_map`: the
+ligands' own maps, and so the regions where the metal's species form from
+one ligand species, change with the ligand total and the temperature. The grid is cut into chunks that
 run in local processes by default or as tasks on a Dask cluster; each chunk
 returns small arrays and, when an output file is given, is saved as it
 finishes beside it, so that a sweep that was stopped resumes where it stopped.
@@ -118,6 +125,10 @@ _DESCRIPTIONS = {
 # maps per chunk: batched grid points are cheap, single maps are not
 _CHUNK_BATCH = 512
 _CHUNK_SINGLE = 8
+# how grid points are cut into chunks (part of the fingerprint: chunks saved under another
+# layout are not mixed in); 2: alloy chunks hold every ratio of a condition together
+_LAYOUT = 2
+_CHUNK_RATIOS = 16  # alloy points solved ratio by ratio: a walk each, one map per condition
 
 
 @dataclass(frozen=True)
@@ -167,7 +178,7 @@ class SweepSpec:
 
     def fingerprint(self):
         """A short hash of the settings (saved chunks are reused only for the same settings)."""
-        text = json.dumps(asdict(self), sort_keys=True, default=str)
+        text = json.dumps(asdict(self), sort_keys=True, default=str) + f"layout {_LAYOUT}"
         return hashlib.sha256(text.encode()).hexdigest()[:16]
 
 
@@ -445,6 +456,8 @@ def compute_chunk(spec, system_index, flat):
     table = _table(opts.get("dataset", "default"), tuple(opts.get("data_files", ())))
     if len(system) == 1 and not spec.ligands:
         out = _chunk_batched(spec, system[0], cols, table)
+    elif _by_ratio(spec, system):
+        out = _chunk_ratios(spec, system, cols, table)
     else:
         out = _chunk_by_map(spec, system, cols, table)
     out["flat"] = flat
@@ -491,6 +504,79 @@ def _chunk_batched(spec, element, cols, table):
             [nm for nm, k in zip(b.names, keep, strict=True) if k], dtype=str
         )
         out["area"] = areas[:, keep].reshape(n, int(keep.sum()))
+    return out
+
+
+def _by_ratio(spec, system):
+    """Whether a system's grid points are solved ratio by ratio from one map per condition."""
+    return len(system) > 1 and not spec.ligands and spec.ratios is not None
+
+
+def _chunk_ratios(spec, system, cols, table):
+    """Alloy grid points: one map per temperature, amount and ionic strength, then each ratio.
+
+    The species and their planes do not depend on the ratio, so one map at
+    each distinct condition gives them and every ratio is a walk of the
+    linear programme (:func:`pourbaix.maps.systems.units_at_ratio`); the
+    answers then come from the assemblages' planes with the batch functions
+    (:func:`pourbaix.solve.batch.stable_at`, :func:`~pourbaix.solve.batch.passive_width`)
+    and the walk's areas, as the map at that ratio would give them.
+    """
+    from pourbaix.maps.compute import compute_map
+    from pourbaix.maps.systems import units_at_ratio
+    from pourbaix.solve import batch
+
+    n = len(cols["temperature_c"])
+    P = len(spec.points)
+    keys = [k for k in ("temperature_c", spec.amount, "ionic_strength") if k in cols]
+    groups = {}
+    for m in range(n):
+        groups.setdefault(tuple(float(cols[k][m]) for k in keys), []).append(m)
+    texts = {k: np.empty((n, P), dtype=object) for k in _POINT_TEXTS}
+    floats = {k: np.empty((n, P)) for k in _POINT_FLOATS}
+    passive = np.full(n, np.nan)
+    area_rows = [None] * n
+    ph = np.array([p for p, _ in spec.points])
+    e = np.array([q for _, q in spec.points])
+    for values, members in groups.items():
+        kw = dict(_condition_options(spec), **dict(zip(keys, values, strict=True)))
+        first = tuple(float(v) for v in cols["ratio"][members[0]].split(":"))
+        dmap = compute_map(system, table=table, ratio=first, **_species_options(spec), **kw)
+        window = dmap.conditions.window
+        for m in members:
+            ratio = tuple(float(v) for v in cols["ratio"][m].split(":"))
+            units, areas = units_at_ratio(dmap, ratio)
+            planes = np.array([u.plane for u in units], dtype=float)[None]  # (1, N, 3)
+            names = np.array([" + ".join(u.names) for u in units] + [""], dtype=object)
+            states = np.array([u.state for u in units], dtype=object)
+            if P:
+                r = batch.stable_at(planes, ph, e)
+                texts["species"][m] = names[r["species"][0]]
+                texts["state"][m] = states[r["species"][0]]
+                for key in _POINT_FLOATS:
+                    floats[key][m] = r[key][0]
+                for key in _POINT_TEXTS[2:]:
+                    texts[key][m] = names[r[key][0]]
+            if spec.passive_ph is not None:
+                mask = states == "passivation"
+                passive[m] = batch.passive_width(planes, mask, spec.passive_ph, window)[0]
+            area_rows[m] = dict(zip(names[:-1].tolist(), areas.tolist(), strict=True))
+    out = {}
+    if P:
+        for key in _POINT_TEXTS:
+            out[key] = texts[key].astype(str)
+        out.update(floats)
+    if spec.passive_ph is not None:
+        out["passive_width_v"] = passive
+    if spec.solubility_point is not None:  # a single-element answer
+        out["log10_solubility"] = np.full(n, np.nan)
+        out["solubility_solid"] = np.array([""] * n, dtype=str)
+    if spec.areas:
+        names = list(dict.fromkeys(k for row in area_rows for k in row))
+        out["area_names"] = np.array(names, dtype=str)
+        out["area"] = np.array([[row.get(k, 0.0) for k in names] for row in area_rows]).reshape(
+            n, len(names)
+        )
     return out
 
 
@@ -573,6 +659,9 @@ def _tasks(spec, chunk_size):
     size = int(np.prod([len(v) for _, v in dims]))
     tasks = []
     for s, system in enumerate(spec.systems):
+        if _by_ratio(spec, system):
+            tasks += _ratio_tasks(s, size, len(spec.ratios), chunk_size or _CHUNK_RATIOS)
+            continue
         batched = len(system) == 1 and not spec.ligands
         # batched points: chunks of up to 512, at least ~24 of them on a long sweep, so the
         # progress bar moves and an interruption loses little
@@ -581,6 +670,29 @@ def _tasks(spec, chunk_size):
         )
         for start in range(0, size, step):
             tasks.append((s, start, tuple(range(start, min(start + step, size)))))
+    return tasks
+
+
+def _ratio_tasks(s, size, n_ratios, step):
+    """Chunks of an alloy system that hold all ratios of a condition together.
+
+    The ratio is the grid's first dimension, so the points of one condition
+    (temperature, amount, ionic strength) at every ratio are ``rest + k *
+    stride``; a chunk takes such groups whole (split only when there are more
+    ratios than ``step``) so that one map serves every ratio in it. A chunk
+    is named by its first grid point.
+    """
+    stride = size // n_ratios
+    tasks, current = [], []
+    for rest in range(stride):
+        group = [rest + k * stride for k in range(n_ratios)]
+        for i in range(0, n_ratios, step):
+            current += group[i : i + step]
+            if len(current) >= step:
+                tasks.append((s, current[0], tuple(current)))
+                current = []
+    if current:
+        tasks.append((s, current[0], tuple(current)))
     return tasks
 
 
@@ -949,7 +1061,9 @@ def _assemble(spec, results):
         "dataset": str(opts.get("dataset", "default")),
         "caution": CAUTION,
         "method": "single-element grid points solved as batches of planes (pourbaix.solve.batch); "
-        "others map by map (compute_map); exact lower envelopes, no raster",
+        "alloys one map per temperature, amount and ionic strength and a walk of the linear "
+        "programme per ratio (pourbaix.maps.systems.units_at_ratio); ligand systems map by map "
+        "(compute_map); exact lower envelopes, no raster",
     }
     if spec.passive_ph is not None:
         attrs["passive_ph"] = spec.passive_ph

@@ -68,6 +68,7 @@ __all__ = [
     "ratio_combinations",
     "compute_ligand_map",
     "compute_system_map",
+    "units_at_ratio",
 ]
 
 _FARADAY_KJ = F_KJ  # kJ/(mol V)
@@ -1007,42 +1008,7 @@ def compute_system_map(
         raise ConditionsError(
             f"no combination of the {system} species matches the ratio {':'.join(f'{v:g}' for v in r)}"
         )
-    # names in an assemblage: single-metal species in the order of the metals, mixed compounds last
-    order_key = [
-        (
-            sum(m in se.species.composition for m in elements) > 1,
-            min(elements.index(m) for m in se.species.composition if m in elements),
-        )
-        for se in metal_rows
-    ]
-    ids = [species_id(se.species) for se in metal_rows]
-    labels = [species_label(se.species) for se in metal_rows]
-    states = [
-        {m: state_of(se.species, m) for m in elements if m in se.species.composition}
-        for se in metal_rows
-    ]
-    units, base, nu_units = [], [], []
-    for idx, amounts in combos:
-        order = sorted(idx, key=lambda i: (order_key[i], i))
-        plane = amounts @ phis[list(idx)]  # Σ n_s Φ_s per mole of metal (Dantzig 1963)
-        nu = amounts @ nus[list(idx)]
-        metal_states = {
-            m: _combined_state([states[i][m] for i in order if m in states[i]]) for m in elements
-        }
-        plane_ref = to_frame(tuple(float(v) for v in plane), off0, off1)
-        units.append(
-            Entry(
-                names=tuple(ids[i] for i in order),
-                plane=plane_ref,
-                state=metal_states[elements[0]],
-                label=" + ".join(labels[i] for i in order),
-                metal_states=metal_states,
-            )
-        )
-        base.append(plane_ref)
-        nu_units.append(nu)
-    base = np.array(base)
-    nu_units = np.array(nu_units).reshape(len(units), len(families))
+    units, base, nu_units = _assemblage_entries(combos, metal_rows, phis, nus, elements, off0, off1)
 
     method = [
         f"exact lower envelope of transformed-energy planes (half-space intersection) for the {system} system"
@@ -1134,6 +1100,80 @@ def compute_system_map(
     return sm
 
 
+def units_at_ratio(system_map, ratio):
+    """A fixed-ratio map's assemblages at another ratio, and the area of each one's domain.
+
+    The species of a map of several metals (no ligands) and their planes do
+    not depend on the ratio; only the optimal combinations do. So a sweep
+    over ratios at one temperature, amount and ionic strength computes the
+    species once (one map) and walks the linear programme (Gal & Nedoma
+    1972) at each ratio, without building each map.
+
+    Parameters
+    ----------
+    system_map : SystemMap
+        A map of these metals at any ratio, without ligands.
+    ratio : sequence of float
+        Amounts of the metals in the order of the map's elements [mol].
+
+    Returns
+    -------
+    units : list of Entry
+        The assemblages stable somewhere in the window, as the map at
+        ``ratio`` holds them (names, plane per mole of metal vs the map's
+        reference, states).
+    areas : ndarray, shape (len(units),)
+        Area of each assemblage's domain [pH V].
+
+    Raises
+    ------
+    OptionError
+        For a map with ligands or of one metal, or a ratio of the wrong length.
+    ConditionsError
+        For amounts not > 0, or a ratio no combination of the species meets.
+
+    Examples
+    --------
+    >>> m = compute_system_map(["Fe", "Cr"], ratio=(3, 1))
+    >>> units, areas = units_at_ratio(m, (1, 3))
+    >>> print(f"{areas.sum():.6f}")
+    72.000000
+    """
+    c = system_map.conditions
+    elements = c.elements
+    if system_map.ligand_maps or len(elements) < 2:
+        raise OptionError("units_at_ratio needs a map of several metals without ligands")
+    r = np.asarray(ratio, dtype=float)
+    if r.shape != (len(elements),):
+        raise OptionError(f"the ratio needs {len(elements)} amounts ({', '.join(elements)})")
+    if not (np.all(np.isfinite(r)) and np.all(r > 0)):
+        raise ConditionsError(f"ratio amounts must be finite numbers > 0, got {ratio!r}")
+    off0, off1 = c.reference_offset_v, c.reference_slope_v_per_ph
+    # the map's species rows hold each species' plane per atom of its principal metal
+    metal_rows, phis, counts = [], [], []
+    for se in system_map.species:
+        comp = dict(se.species.composition)
+        principal = next((m for m in elements if m in comp), None)
+        if principal is None:
+            continue  # water
+        metal_rows.append(se)
+        phis.append(np.array(se.plane) * comp[principal])
+        counts.append([comp.get(m, 0) for m in elements])
+    phis = np.array(phis)
+    counts = np.array(counts, dtype=float)
+    costs = np.array([to_frame(tuple(p), off0, off1) for p in phis])
+    regions = parametric_lp.walk(costs, counts, r, c.window)
+    combos = parametric_lp.combinations_of(regions)
+    units, _, _ = _assemblage_entries(
+        combos, metal_rows, phis, np.zeros((len(metal_rows), 0)), elements, off0, off1
+    )
+    index = {support: i for i, (support, _) in enumerate(combos)}
+    areas = np.zeros(len(units))
+    for reg in regions:
+        areas[index[reg.support]] += reg.area
+    return units, areas
+
+
 def _ligand_warnings(sm, families, metal_activity, metal_rows, nus):
     """Warn where the dissolved metal is not far below the ligand (no mass balance)."""
     stable = {n for d in sm.domains for n in d.species}
@@ -1149,6 +1189,51 @@ def _ligand_warnings(sm, families, metal_activity, metal_rows, nus):
                 f"(total activity {a:g}) — it would bind up to {need:g} of it; the predominant-ligand method "
                 "has no mass balance on the ligand, so fields involving it are unreliable here"
             )
+
+
+def _assemblage_entries(combos, metal_rows, phis, nus, elements, off0, off1):
+    """Entries of the combinations (species indices, amounts): names, plane, states.
+
+    Returns the entries, their planes per mole of metal in the reference
+    frame (M, 3) and their ligand units (M, F).
+    """
+    # names in an assemblage: single-metal species in the order of the metals, mixed compounds last
+    order_key = [
+        (
+            sum(m in se.species.composition for m in elements) > 1,
+            min(elements.index(m) for m in se.species.composition if m in elements),
+        )
+        for se in metal_rows
+    ]
+    ids = [species_id(se.species) for se in metal_rows]
+    labels = [species_label(se.species) for se in metal_rows]
+    states = [
+        {m: state_of(se.species, m) for m in elements if m in se.species.composition}
+        for se in metal_rows
+    ]
+    units, base, nu_units = [], [], []
+    for idx, amounts in combos:
+        order = sorted(idx, key=lambda i: (order_key[i], i))
+        plane = amounts @ phis[list(idx)]  # Σ n_s Φ_s per mole of metal (Dantzig 1963)
+        nu = amounts @ nus[list(idx)]
+        metal_states = {
+            m: _combined_state([states[i][m] for i in order if m in states[i]]) for m in elements
+        }
+        plane_ref = to_frame(tuple(float(v) for v in plane), off0, off1)
+        units.append(
+            Entry(
+                names=tuple(ids[i] for i in order),
+                plane=plane_ref,
+                state=metal_states[elements[0]],
+                label=" + ".join(labels[i] for i in order),
+                metal_states=metal_states,
+            )
+        )
+        base.append(plane_ref)
+        nu_units.append(nu)
+    base = np.array(base)
+    nu_units = np.array(nu_units).reshape(len(units), nus.shape[1])
+    return units, base, nu_units
 
 
 def _ligand_regions(conditions, ligand_planes, ligand_maps):

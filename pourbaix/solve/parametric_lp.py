@@ -109,8 +109,14 @@ class CriticalRegion:
 
 
 def _area(poly):
-    x, y = poly[:, 0], poly[:, 1]
-    return 0.5 * float(np.dot(x, np.roll(y, -1)) - np.dot(y, np.roll(x, -1)))
+    # shoelace formula over a handful of vertices: plain floats beat numpy here
+    pts = poly.tolist()
+    total = 0.0
+    px, py = pts[-1]
+    for qx, qy in pts:
+        total += px * qy - py * qx
+        px, py = qx, qy
+    return 0.5 * total
 
 
 def _check(costs, counts, ratio, window):
@@ -313,6 +319,8 @@ def _clip_labelled(window, D, columns, tol):
     V = np.array([[x0, y0], [x1, y0], [x1, y1], [x0, y1]], dtype=float)
     L = [-1, -1, -1, -1]
     Dc = D[columns]
+    if not len(columns):
+        return V, L
     while True:
         vals = Dc[:, 0][:, None] + Dc[:, 1][:, None] * V[:, 0] + Dc[:, 2][:, None] * V[:, 1]
         worst = vals.min(axis=1)
@@ -385,9 +393,15 @@ def _region(costs, A, r, basis, window, reduced=None):
     D, _, x_b = _reduced_planes(costs, A, r, basis) if reduced is None else reduced
     if D is None or np.any(x_b < -_AMOUNT_TOL):
         return None
-    nonbasic = np.setdiff1d(np.arange(len(costs)), basis)
     scale = 1.0 + np.abs(costs).max()
-    V, L = _clip_labelled(window, D, nonbasic, _COST_TOL * scale)
+    tol = _COST_TOL * scale
+    # a reduced cost >= 0 at the window's four corners is >= 0 all over it (linear): only
+    # the columns negative at some corner can cut the region
+    x0, x1, y0, y1 = window
+    lows = D[:, 0] + np.minimum(D[:, 1] * x0, D[:, 1] * x1) + np.minimum(D[:, 2] * y0, D[:, 2] * y1)
+    cutting = lows < -tol
+    cutting[list(basis)] = False
+    V, L = _clip_labelled(window, D, np.flatnonzero(cutting), tol)
     if V is None:
         return None
     win_area = (window[1] - window[0]) * (window[3] - window[2])
