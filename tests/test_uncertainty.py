@@ -195,3 +195,47 @@ def test_species_json_gives_the_stated_uncertainty(capsys):
     # ZnO: log *Ks0 = 11.12 +/- 0.05 (Powell et al. 2013, from memory): u = 5.708 * 0.05 / 2
     assert rows[("ZnO", "s")]["dgf_unc_kj_mol"] == pytest.approx(RT_LN10 * 0.05 / 2, abs=0.006)
     assert "dgf_unc_kj_mol" not in rows[("Zn^2+", "aq")]  # NBS82 states none
+
+
+def test_loader_reads_the_parent_and_refuses_a_bad_one(tmp_path):
+    head = "formula,phase,dgf_kj_mol,dgf_unc_kj_mol,dgf_unc_parent,source\n"
+    path = tmp_path / "mine.csv"
+    path.write_text(head + "ZnOH^+,aq,-333.0,0.2,Zn^2+,X\n", encoding="utf-8")
+    assert load_species(user_files=[path]).get("ZnOH^+", "aq").dgf_unc_parent == "Zn^2+"
+    for row, pattern in (
+        ("ZnOH^+,aq,-333.0,,Zn^2+,X", "needs dgf_unc_kj_mol"),
+        ("ZnOH^+,aq,-333.0,0.2,Zz^2+,X", "dgf_unc_parent: "),
+        ("ZnOH^+,aq,-333.0,0.2,ZnOH+,X", "names the row itself"),
+    ):
+        path.write_text(head + row + "\n", encoding="utf-8")
+        with pytest.raises(DataFileError) as info:
+            load_species(user_files=[path])
+        ((where, line, _, message),) = info.value.problems
+        assert where == str(path) and line == 2 and pattern in message, message
+
+
+def _share_along(result, name, ph, potential_v):
+    share = np.zeros(np.broadcast(ph, potential_v).shape)
+    for m in result.samples:
+        got = m.probe(np.broadcast_to(ph, share.shape), np.broadcast_to(potential_v, share.shape))
+        share += np.asarray(got.species, dtype=object) == name
+    return share / len(result.samples)
+
+
+def test_a_row_moves_with_its_parent():
+    # ZnO from log *Ks0 = 11.12 +/- 0.05 and the table's Zn2+ (Powell et al. 2013, from memory):
+    # with Zn2+ drawn at 1 kJ/mol (no stated value) and ZnO with it plus u = 0.14 kJ/mol, the
+    # Zn2+/ZnO line (pH = (log *Ks0 - log a)/2) has a 95 % band of 2 * 1.96 * u / (2 RT ln10)
+    # = 0.049 pH; drawn independently it would span 2 * 1.96 * sqrt(1 + 0.14^2) / (2 RT ln10)
+    # = 0.35 pH (JCGM 100:2008 eq. 10 with and without the shared term)
+    r = sample_maps("Zn", samples=200, default_uncertainty_kj_mol=1.0, seed=5)
+    ph = np.linspace(8.2, 8.9, 701)
+    acid = _share_along(r, "Zn^2+", ph, 0.0)
+    width = ph[np.argmax(acid < 0.025)] - ph[np.argmax(acid < 0.975)]
+    u = load_species().get("ZnO", "s").dgf_unc_kj_mol
+    assert width == pytest.approx(2 * 1.96 * u / (2 * RT_LN10), rel=0.35)
+    # the shared draw still moves the Zn2+/Zn line: E0 = dG(Zn2+) / (2F), u = 1 kJ/mol / 2F
+    potential = np.linspace(-1.1, -0.8, 601)
+    metal = _share_along(r, "Zn", 4.0, potential)
+    spread = potential[np.argmax(metal < 0.025)] - potential[np.argmax(metal < 0.975)]
+    assert spread == pytest.approx(2 * 1.96 * 1.0 / (2 * 96.485), rel=0.35)  # [V]

@@ -7,11 +7,15 @@ what the row's own source prints, e.g. CODATA key values or an IUPAC review's
 log K interval) or, for a row that states none, a default the user chooses
 (``--uncertainty KJ``, 1 kJ/mol when no value is given; 0 samples only the rows
 with stated uncertainties); the map is solved once per sample (Monte Carlo
-propagation of distributions, JCGM 101:2008). The probability of a species at a point is the
-share of samples in which it is the stable one; a boundary's 95 % band is where
-no species reaches 97.5 % (the central 95 % of the sampled boundary positions
-covers the point). Draws are independent per species: correlations between
-values of one compilation are not modelled (a stated simplification).
+propagation of distributions, JCGM 101:2008). A row derived from another species
+by a constant (``dgf_unc_parent``, e.g. a hydroxo complex or oxide from its
+review's log K and the table's Zn2+) moves with that species' draw plus its own,
+so the line between the two moves only by the constant's uncertainty. The
+probability of a species at a point is the share of samples in which it is the
+stable one; a boundary's 95 % band is where no species reaches 97.5 % (the central
+95 % of the sampled boundary positions covers the point). Other draws are
+independent per species: correlations between values of one compilation are not
+modelled (a stated simplification).
 
 References
 ----------
@@ -73,14 +77,37 @@ def _perturbed_tables(table, elements, count, default, seed):
         ]
     )
     stated = sum(table.species[i].dgf_unc_kj_mol is not None for i in chosen)
+    parents = _parent_positions(table, chosen)
     tables = []
     for _ in range(count):
-        draw = rng.normal(0.0, 1.0, len(chosen)) * sigma
+        own = rng.normal(0.0, 1.0, len(chosen)) * sigma
+        draw = [_with_parents(k, own, parents) for k in range(len(chosen))]
         species = list(table.species)
         for i, delta in zip(chosen, draw, strict=True):
             species[i] = dataclasses.replace(species[i], dgf_kj_mol=species[i].dgf_kj_mol + delta)
         tables.append(dataclasses.replace(table, species=tuple(species)))
     return tables, stated, len(chosen)
+
+
+def _parent_positions(table, chosen):
+    """For each drawn species, the position (in ``chosen``) of its dgf_unc_parent, or None."""
+    where = {table.species[i].key: k for k, i in enumerate(chosen)}
+    out = []
+    for i in chosen:
+        name = table.species[i].dgf_unc_parent
+        # a parent outside the drawn species (another element) stays at its table value
+        out.append(None if name is None else where.get(table.get(name).key))
+    return out
+
+
+def _with_parents(k, own, parents):
+    """Own draw plus the draws of the chain of parents (the loader refuses a self-reference)."""
+    total, seen = 0.0, set()
+    while k is not None and k not in seen:
+        seen.add(k)
+        total += own[k]
+        k = parents[k]
+    return total
 
 
 def sample_maps(

@@ -35,6 +35,7 @@ COLUMNS: dict[str, tuple[str, bool]] = {
     "form": ("text", False),
     "dgf_kj_mol": ("kJ/mol", True),
     "dgf_unc_kj_mol": ("kJ/mol", False),
+    "dgf_unc_parent": ("species name", False),
     "dhf_kj_mol": ("kJ/mol", False),
     "s_j_molk": ("J/(mol K)", False),
     "cp_j_molk": ("J/(mol K)", False),
@@ -194,6 +195,11 @@ class Species:
         intervals, about twice the standard uncertainty; the row's note gives the printed
         values and the propagation); None where the source states none (used by
         :mod:`pourbaix.analyses.uncertainty`).
+    dgf_unc_parent : str or None
+        Name of the species (``Zn^2+``) that ``dgf_kj_mol`` was derived from by a constant
+        (a hydrolysis or solubility constant converted with that species' ΔfG°):
+        ``dgf_unc_kj_mol`` is then the uncertainty relative to it, and a sampled
+        energy moves with that species' draw plus its own.
     s_j_molk : float or None
         Standard entropy [J/(mol K)].
     cp_j_molk : float or None
@@ -241,6 +247,7 @@ class Species:
     note: str = ""
     origin: str = ""
     dgf_unc_kj_mol: float | None = None
+    dgf_unc_parent: str | None = None
 
     @property
     def composition(self) -> Mapping[str, int]:
@@ -818,6 +825,12 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems) ->
             )
         else:
             values[name] = x
+    if cell("dgf_unc_parent") and values.get("dgf_unc_kj_mol") is None:
+        add(
+            "dgf_unc_parent",
+            f"dgf_unc_parent {cell('dgf_unc_parent')!r} needs dgf_unc_kj_mol (the uncertainty "
+            "relative to that species)",
+        )
     if values.get("dgf_unc_kj_mol") is not None and values["dgf_unc_kj_mol"] < 0:
         add(
             "dgf_unc_kj_mol",
@@ -882,6 +895,7 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems) ->
         form=form,
         dgf_kj_mol=values["dgf_kj_mol"],
         dgf_unc_kj_mol=values["dgf_unc_kj_mol"],
+        dgf_unc_parent=cell("dgf_unc_parent") or None,
         dhf_kj_mol=values["dhf_kj_mol"],
         s_j_molk=values["s_j_molk"],
         cp_j_molk=values["cp_j_molk"],
@@ -1092,15 +1106,34 @@ def load_species(dataset: str = "default", user_files: Sequence[str | Path] = ()
                     f"{sp.dgf_kj_mol:.2f} from {sp.origin}" + _dropped(old, sp)
                 )
             merged[sp.key] = sp
-    if problems:
-        raise DataFileError(problems)
-    return SpeciesTable(
+    table = SpeciesTable(
         species=tuple(merged.values()),
         sources=types.MappingProxyType(sources),
         dataset=str(dataset),
         overrides=tuple(overrides),
         dataset_changes=changes,
     )
+    problems += _parent_problems(table)
+    if problems:
+        raise DataFileError(problems)
+    return table
+
+
+def _parent_problems(table: SpeciesTable) -> list:
+    """Rows whose ``dgf_unc_parent`` names no species of the table, or itself."""
+    problems = []
+    for sp in table.species:
+        if sp.dgf_unc_parent is None:
+            continue
+        where, _, line = sp.origin.rpartition(":")
+        try:
+            parent = table.get(sp.dgf_unc_parent)
+        except UnknownSpeciesError as exc:
+            problems.append((where, int(line), 0, f"dgf_unc_parent: {exc}"))
+            continue
+        if parent.key == sp.key:
+            problems.append((where, int(line), 0, "dgf_unc_parent names the row itself"))
+    return problems
 
 
 # old private names, kept one release for code not yet moved to the public ones
