@@ -323,6 +323,13 @@ K_NOTES = {
         "finding that chloropyromorphite is the stable lead phosphate wherever chloride is "
         "present; not used"
     ),
+    ("PbH2PO4^+", "aq"): (
+        "; gives log K(Pb2+ + H2PO4- = PbH2PO4+) = -5.80 with these tables: the file writes "
+        "the constant it cites, 1.5, for Pb2+ + H+ + HPO4^2- instead, and Smith & Martell give "
+        "1.5 for the reaction with H2PO4- (recalled); the Thermoddem file prints -1.5 for it "
+        "(74nri). With any of these values the complex stays below 0.4 % of dissolved lead at "
+        "1e-4 phosphate, so the maps do not change; kept, as read"
+    ),
     ("Pb3(PO4)2", "s"): (
         "; gives log Ksp(Pb3(PO4)2 = 3Pb2+ + 2PO4^3-) = -44.33 with these tables (Thermoddem, "
         "reference 74nri: -5.48 for Pb3(PO4)2 + 4H+ = 3Pb2+ + 2H2PO4-, against -5.28 here). With "
