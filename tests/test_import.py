@@ -19,6 +19,8 @@ from pathlib import Path
 
 import pytest
 
+from pourbaix.tables.formula import parse_formula
+
 ROOT = Path(__file__).resolve().parents[1]
 DATA = ROOT / "species_data"
 IMPORT = DATA / "import" / "run_import.py"
@@ -92,6 +94,8 @@ def test_every_imported_value_equals_its_source(run_import):
     with run_import.crc_solids_file().open(newline="", encoding="utf-8") as handle:
         for row in csv.DictReader(handle, delimiter="\t"):
             crc[row["CAS"]] = row
+    with run_import.crc_ions_file().open(newline="", encoding="utf-8") as handle:
+        ions = {r["Formula"]: r for r in csv.DictReader(handle, delimiter="\t")}
     rows = _imported_rows()
     assert len(rows) > 500
     counted = {"llnl": 0, "supcrt": 0, "crc": 0, "thermoddem": 0, "log K": 0}
@@ -161,9 +165,31 @@ def test_every_imported_value_equals_its_source(run_import):
             start = supcrt.index("\n " + name + " ") + 1
             m = re.match(r".*\n.*\n.*\n(.*)", supcrt[start:])
             g, h, s = (float(x) for x in m.group(1).split()[:3])
-            assert float(row["dgf_kj_mol"]) == pytest.approx(g * KCAL / 1000, abs=1e-6), where
+            # a set anchored on an NBS82 ion: the note states the shift per atom and the ion's
+            # value, checked here against the CRC table of aqueous ions
+            moved = 0.0
+            anchor = re.search(
+                r"shifted by ([-+\d.]+) kJ/mol \(([-+\d.]+) per (\w+)\): .*?NBS82 (\S+) of the "
+                r"CRC table of aqueous ions \(([-\d.]+) kJ/mol, against ([-\d.]+) here\)",
+                note,
+            )
+            if anchor:
+                moved = float(anchor.group(1))
+                count = parse_formula(row["formula"]).composition[anchor.group(3)]
+                assert moved == pytest.approx(count * float(anchor.group(2)), abs=1e-3), where
+                ion = parse_formula(anchor.group(4))
+                crc_ion = ions[f"{ion.text.split('^')[0]}+{ion.charge}"]
+                assert float(anchor.group(5)) == float(crc_ion["Gf(aq)"]) / 1000, where
+                ion_printed = float(anchor.group(6))
+                assert float(anchor.group(2)) == pytest.approx(
+                    (float(anchor.group(5)) - ion_printed) / ion.composition[anchor.group(3)],
+                    abs=1e-3,
+                ), where
+            assert float(row["dgf_kj_mol"]) == pytest.approx(g * KCAL / 1000 + moved, abs=1e-6), (
+                where
+            )
             if row["dhf_kj_mol"]:
-                assert float(row["dhf_kj_mol"]) == pytest.approx(h * KCAL / 1000, abs=1e-6)
+                assert float(row["dhf_kj_mol"]) == pytest.approx(h * KCAL / 1000 + moved, abs=1e-6)
             if row["s_j_molk"]:
                 assert float(row["s_j_molk"]) == pytest.approx(s * KCAL, abs=1e-6), where
         elif " the CRC table (CAS " in note:

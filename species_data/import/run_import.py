@@ -237,8 +237,8 @@ EXCLUDE = {
 E0_NOTES = {
     ("H3AsO4", "aq"): "E0(H3AsO4/HAsO2) = 0.574 V where the series lists 0.56 V",
     ("AsO4^3-", "aq"): "E0(AsO4^3-/AsO2-) = -0.744 V where the series lists -0.71 V (OH- form)",
-    ("Bi^3+", "aq"): "E0(Bi3+/Bi) = 0.331 V where the series lists 0.308 V",
-    ("BiO^+", "aq"): "E0(BiO+/Bi) = 0.396 V where the series lists 0.32 V",
+    ("Bi^3+", "aq"): "E0(Bi3+/Bi) = 0.286 V where the series lists 0.308 V",
+    ("BiO^+", "aq"): "E0(BiO+/Bi) = 0.351 V where the series lists 0.32 V",
     ("Cd(OH)2", "s"): "E0(Cd(OH)2/Cd) = -0.825 V where the series lists -0.809 V (OH- form)",
     ("H2Se", "aq"): "E0(Se/H2Se) = -0.115 V where the series lists -0.399 V",
     ("Se^2-", "aq"): "E0(Se/Se^2-) = -0.670 V where the series lists -0.924 V",
@@ -284,14 +284,19 @@ K_NOTES = {
         "put them 16 mV and 32 mV further off. Kept, as read"
     ),
     ("Bi^3+", "aq"): (
-        "; the bismuth system mixes two compilations: the ions come from the SUPCRT set (Shock et "
-        "al. 1997, Bi3+ 95.7 kJ/mol), the solids Bi2O3 and BiOCl from the CRC table (NBS82, where "
-        "Bi3+ is 82.8). The solids agree with the series on their own (Bi2O3/Bi -0.46 V, "
-        "BiOCl/Bi 0.158 V, tests/test_new_elements_e0.py); the ion does not: log *Ks(1/2 Bi2O3 + "
-        "3H+ = Bi3+ + 1.5H2O) is 2.30 with this value, 4.56 with NBS82 throughout, and 3.45 with "
-        "the series' E0(Bi3+/Bi) 0.308 V, so the Bi2O3/Bi3+ line and the BiO+ and hydroxo "
-        "fields (tied to Bi3+ by Shock et al.'s hydrolysis constants) carry about 1 log unit of "
-        "doubt; the SUPCRT set is kept whole, as the alkaline species (HBiO2, BiO2-) exist only there"
+        "; the bismuth system: the solids Bi2O3 and BiOCl and the base ion Bi3+ are NBS82 (the "
+        "CRC tables), the hydrolysis species come from the SUPCRT set (Shock et al. 1997) moved "
+        "with its Bi3+ onto NBS82. The solids agree with the series on their own (Bi2O3/Bi "
+        "-0.46 V, BiOCl/Bi 0.158 V, tests/test_new_elements_e0.py). log *Ks(1/2 Bi2O3 + 3H+ = "
+        "Bi3+ + 1.5H2O) is 4.56 here; the SUPCRT Bi3+ as printed gave 2.30, and the series' "
+        "E0(Bi3+/Bi) 0.308 V gives 3.45, so the Bi2O3/Bi3+ line carries about 1 log unit of doubt"
+    ),
+    ("HBiO2", "aq"): (
+        "; with Bi2O3 of this table gives the oxide's solubility as HBiO2(aq), log a = -3.63 "
+        "(1/2 Bi2O3 + 1/2 H2O = HBiO2), so the oxide appears on the map only above about 2.4e-4 "
+        "dissolved bismuth; log *beta(Bi3+ + 2H2O = HBiO2 + 3H+) = -8.19 is an estimate by Shock "
+        "et al.'s correlations, the weak link of this system: read the neutral bismuth field "
+        "with that doubt"
     ),
     ("Pt^2+", "aq"): (
         "; the platinum system takes its ions and chloride and sulfate complexes from one "
@@ -346,6 +351,11 @@ K_NOTES = {
     ),
 }
 E0_SPECIAL = {
+    ("Bi^3+", "aq"): (
+        "; 82.8 kJ/mol is NBS82's (the CRC table of aqueous ions), the compilation of the "
+        "bismuth solids, which agree with the series themselves; the series' 0.308 V implies "
+        "89.2 kJ/mol: read the Bi3+ boundaries as uncertain by about 20 mV"
+    ),
     ("H2Se", "aq"): (
         "; 22.2 kJ/mol is the NBS82 value (the LLNL file reprints it); the series' -0.399 V "
         "implies dG(H2Se,aq) = 77.0 kJ/mol, an older value none of the compilations read here "
@@ -465,6 +475,10 @@ CRC_SOLIDS = {
 # elements whose LLNL aqueous species are few; their base ions in the LLNL file are the
 # SUPCRT values (88sho/hel), so SUPCRT hydrolysis and chloride complexes fit them
 SUPCRT_FILLS = set(CRC_SOLIDS) | {"Hg"}
+# SUPCRT aqueous sets anchored on the NBS82 value of their base ion (the CRC table of aqueous
+# ions), the compilation of the element's solids: every species of the set is shifted by the same
+# amount per atom of the element, so the set's hydrolysis constants are kept (element -> ion)
+SUPCRT_ANCHOR = {"Bi": "Bi^3+"}
 # SUPCRT file whose aqueous species fill the gaps the LLNL file leaves
 SUPCRT_FILE = "speq21.dat"
 CRC_KEY = "CRC95"
@@ -1051,6 +1065,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
     sup_refs = supcrt_citations(read_supcrt_references(sup_path))
     sup_used: set[str] = set()
     for symbol, stem in NEW_ELEMENTS.items():
+        shift, anchor_note = _supcrt_anchor(symbol, read_supcrt_cached(sup_path), crc_ions)
         # only the elements the LLNL file leaves thin take SUPCRT aqueous species
         for entry in read_supcrt_cached(sup_path) if symbol in SUPCRT_FILLS else ():
             if entry.phase != "aq":
@@ -1078,13 +1093,16 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
                 + (f", H {h} cal/mol" if h else "")
                 + (f", S {s_} cal/(mol K)" if s_ else "")
             )
+            moved = f.composition.get(symbol, 0) * shift
+            anchored = f"; dG and dH shifted by {fmt(moved)} kJ/mol{anchor_note}" if moved else ""
+            g_kj = to_kj(g, "kcal") / 1000 + moved
             tables[stem].append(
                 [
                     text,
                     "aq",
                     "",
-                    fmt(to_kj(g, "kcal") / 1000),
-                    fmt(to_kj(h, "kcal") / 1000 if h else None),
+                    fmt(g_kj),
+                    fmt(to_kj(h, "kcal") / 1000 + moved if h else None),
                     fmt(to_j(s_, "cal") if s_ else None),
                     "",
                     "",
@@ -1096,12 +1114,17 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
                     supcrt_key(code, sup_refs[code]),
                     f"read by species_data/import from SUPCRT {SUPCRT_FILE} entry '{entry.name}' ({printed}; "
                     f"ref {','.join(entry.refs)}); the LLNL file has no value for this species"
-                    + crc_remark(f, "aq", to_kj(g, "kcal") / 1000, crc_ions).replace(
+                    + crc_remark(f, "aq", g_kj, crc_ions).replace(
                         "this value is kept so that the element's species come from one compilation",
-                        "the SUPCRT aqueous set is kept whole (its hydrolysis constants rest on it); "
-                        "the solids of this element come from the CRC table, so solubilities carry "
-                        "this difference",
-                    ),
+                        "the SUPCRT aqueous set is kept whole (its hydrolysis constants rest on it)"
+                        + (
+                            "; the solids of this element come from the CRC table, so solubilities "
+                            "carry this difference"
+                            if not moved
+                            else ""
+                        ),
+                    )
+                    + anchored,
                 ]
             )
         for item in CRC_SOLIDS.get(symbol, ()):
@@ -1388,6 +1411,29 @@ def _from_logk(row: list[str], entry, gibbs: dict) -> list[str]:
         f"constant by {-shift / RT_LN10:+.2f}); dH and S left out with it"
     )
     return out
+
+
+def _supcrt_anchor(symbol: str, supcrt_entries, crc_ions: dict) -> tuple[float, str]:
+    """Shift per atom [kJ/mol] that puts the element's SUPCRT base ion on its NBS82 value."""
+    if symbol not in SUPCRT_ANCHOR:
+        return 0.0, ""
+    ion = parse_formula(SUPCRT_ANCHOR[symbol])
+    entry = next(
+        e
+        for e in supcrt_entries
+        if e.phase == "aq"
+        and e.charge == ion.charge
+        and dict(e.composition) == dict(ion.composition)
+    )
+    printed = to_kj(entry.field(0, 0), "kcal") / 1000
+    nbs = crc_ions[(frozenset(ion.composition.items()), ion.charge)]
+    shift = (nbs - printed) / ion.composition[symbol]
+    return shift, (
+        f" ({fmt(shift)} per {symbol}): the SUPCRT set is anchored on the NBS82 {ion.text} of the "
+        f"CRC table of aqueous ions ({nbs:.1f} kJ/mol, against {fmt(printed)} here), the "
+        f"compilation of this element's solids, so that the set's hydrolysis constants are kept "
+        f"and its ions agree with the solids"
+    )
 
 
 def _thermoddem_aqueous_row(choice, species, gibbs) -> list[str]:
