@@ -410,7 +410,7 @@ def compute_balanced_map(
     from pourbaix.conditions import make_conditions, parse_elements
     from pourbaix.physics import energies
     from pourbaix.physics.components import build_system, parse_totals
-    from pourbaix.solve.equilibrium import energy_derivatives_rt, solve_at
+    from pourbaix.solve.equilibrium import energy_derivatives_rt, solve_at, solve_many
     from pourbaix.solve.trace import trace_domains
     from pourbaix.tables.species import load_species
 
@@ -492,6 +492,16 @@ def compute_balanced_map(
         state["max_i"] = max(state["max_i"], r.ionic_strength)
         return point_key(system, r), r
 
+    def solve_many_points(points):
+        if model is not None:  # activity models: one point at a time, warm started
+            return [solve(ph, e) for ph, e in points]
+        ph = np.array([p[0] for p in points])
+        she = conditions.to_she(ph, np.array([p[1] for p in points]))
+        results = solve_many(system, ph, she)
+        state["last"] = results[-1]
+        state["max_i"] = max(state["max_i"], max(r.ionic_strength for r in results))
+        return [(point_key(system, r), r) for r in results]
+
     derivatives = energy_derivatives_rt(system, conditions.reference_slope_v_per_ph)
     traced = trace_domains(
         solve,
@@ -500,6 +510,7 @@ def compute_balanced_map(
         mesh=mesh,
         tolerance=(tol_ph, tol_v),
         gradient=lambda r, a, b: _boundary_gradient(system, r, a, b, derivatives),
+        classify_many=solve_many_points,
     )
     x0, x1, y0, y1 = conditions.window
     lines = [LineString(pts) for _, _, pts in traced.segments if len(pts) >= 2]

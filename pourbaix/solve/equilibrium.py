@@ -40,6 +40,7 @@ __all__ = [
     "EquilibriumResult",
     "solve_equilibrium",
     "solve_at",
+    "solve_many",
     "energies_rt",
     "energy_derivatives_rt",
     "sensitivity",
@@ -657,6 +658,227 @@ def solve_at(
         raise EquilibriumError(
             f"at pH {float(ph):g}, E {float(potential_v):g} V vs SHE: {exc}"
         ) from None
+
+
+def _initial_many(prep, mu_aq):
+    """:func:`_initial` for many points at once, shape (P, C)."""
+    b, A_aq = prep.b, prep.A_aq
+    lam = np.zeros((mu_aq.shape[0], len(b)))
+    single = np.count_nonzero(A_aq, axis=1) == 1
+    for j in range(len(b)):
+        only = np.flatnonzero((A_aq[:, j] > 0) & single)
+        rows = only if len(only) else np.flatnonzero(A_aq[:, j] > 0)
+        if len(rows) == 0:
+            lam[:, j] = math.log(b[j])
+            continue
+        lam[:, j] = np.min((mu_aq[:, rows] + math.log(b[j])) / A_aq[rows, j], axis=1)
+    return lam
+
+
+def _batch_newton(prep, mu_aq, mu_s, max_iter=100):
+    """The active-set Newton of :func:`_solve_fixed_gamma` on many points at once (ideal).
+
+    Every point carries a system of fixed size C + N_solids: inactive solids get an identity
+    row (their multiplier is 0), so one batched ``numpy.linalg.solve`` serves all points.
+
+    Returns (lam (P, C), active (P, N) bool, nu (P, N), done (P,) bool, iterations (P,)).
+    """
+    b, A_aq, A_s = prep.b, prep.A_aq, prep.A_s
+    n_p, n_c, n_s = mu_aq.shape[0], len(b), A_s.shape[0]
+    lam = _initial_many(prep, mu_aq)
+    over = np.max((lam @ A_aq.T - mu_aq - prep.cap) / prep.aq_sums, axis=1)
+    lam -= np.maximum(over, 0.0)[:, None]
+    if n_s:
+        worst = np.max((lam @ A_s.T - mu_s) / A_s.sum(axis=1), axis=1)
+        lam -= np.where(worst > -1e-9, worst + 1e-6, 0.0)[:, None]
+    W = np.zeros((n_p, n_s), dtype=bool)
+    nu = np.zeros((n_p, n_s))
+    done = np.zeros(n_p, dtype=bool)
+    iterations = np.zeros(n_p, dtype=int)
+    scale = prep.scale
+    size = n_c + n_s
+    eye_s = np.eye(n_s)
+    ridge = np.diag(prep.ridge)
+    for _ in range(max_iter):
+        todo = np.flatnonzero(~done)
+        if not len(todo):
+            break
+        iterations[todo] += 1
+        L, Wt, mu_a, mu_b = lam[todo], W[todo], mu_aq[todo], mu_s[todo]
+        ex = L @ A_aq.T - mu_a
+        n = np.exp(np.minimum(ex, _EXP_MAX))
+        g = b - n @ A_aq
+        K = np.zeros((len(todo), size, size))
+        K[:, :n_c, :n_c] = np.einsum("ps,sc,sd->pcd", n, A_aq, A_aq) + ridge
+        if n_s:
+            w = Wt.astype(float)
+            K[:, :n_c, n_c:] = A_s.T[None, :, :] * w[:, None, :]
+            K[:, n_c:, :n_c] = A_s[None, :, :] * w[:, :, None]
+            K[:, n_c:, n_c:] = eye_s[None, :, :] * (1.0 - w)[:, None, :]
+        rhs = np.zeros((len(todo), size))
+        rhs[:, :n_c] = g
+        try:
+            sol = np.linalg.solve(K, rhs[..., None])[..., 0]
+        except np.linalg.LinAlgError:
+            return lam, W, nu, done, iterations  # the scalar solver takes the rest
+        step, nu_t = sol[:, :n_c], sol[:, n_c:] * Wt
+        resid = g - nu_t @ A_s
+        rel = np.max(np.abs(resid) / scale, axis=1)
+        big = np.max(np.abs(step), axis=1)
+        near = (big < 1e-10) | (rel < MASS_TOLERANCE * 1e-2)
+        if n_s:
+            short = np.where(Wt, nu_t / prep.solid_scale, np.inf)
+            leave = near & (short.min(axis=1) < -1e-2 * MASS_TOLERANCE)
+            for k in np.flatnonzero(leave):  # a solid with a negative amount leaves
+                W[todo[k], int(np.argmin(short[k]))] = False
+        else:
+            leave = np.zeros(len(todo), dtype=bool)
+        finished = (
+            near
+            & ~leave
+            & ((rel < MASS_TOLERANCE * 1e-2) | ((big < 1e-14) & (rel < MASS_TOLERANCE)))
+        )
+        done[todo[finished]] = True
+        nu[todo[finished]] = nu_t[finished]
+        move = ~finished & ~leave
+        if not move.any():
+            continue
+        idx = np.flatnonzero(move)
+        st, bg = step[idx], big[idx]
+        alpha = np.minimum(1.0, _STEP_MAX / np.where(bg > 0, bg, 1.0))
+        block = np.full(len(idx), -1)
+        Lm = L[idx]
+        if n_s:
+            rate = st @ A_s.T
+            rate[Wt[idx]] = 0.0
+            slack = np.maximum(mu_b[idx] - Lm @ A_s.T, 0.0)
+            with np.errstate(divide="ignore", invalid="ignore"):
+                t = np.where(rate > 1e-300, slack / rate, np.inf)
+            q = np.argmin(t, axis=1)
+            tq = t[np.arange(len(idx)), q]
+            hit = tq < alpha
+            alpha = np.where(hit, tq, alpha)
+            block = np.where(hit, q, -1)
+        # damping: backtracking (Armijo) on the concave dual where the step is not small
+        damp = bg * alpha > 1e-3
+        if damp.any():
+            nm = n[idx]
+            clipped = ex[idx].max(axis=1) > _EXP_MAX
+            d0 = np.where(clipped, -np.inf, Lm @ b - nm.sum(axis=1))
+            slope = np.einsum("pc,pc->p", g[idx], st)
+            rounding = np.where(np.isfinite(d0), 1e-13 * (np.abs(d0) + np.abs(Lm @ b)), 0.0)
+            a = alpha.copy()
+            pending = damp.copy()
+            for _ in range(45):
+                if not pending.any():
+                    break
+                trial = Lm[pending] + a[pending, None] * st[pending]
+                with np.errstate(over="ignore", invalid="ignore"):
+                    e_t = trial @ A_aq.T - mu_aq[todo[idx[pending]]]
+                    value = np.where(
+                        e_t.max(axis=1) > _EXP_MAX, -np.inf, trial @ b - np.exp(e_t).sum(axis=1)
+                    )
+                ok = value >= d0[pending] + 1e-4 * a[pending] * slope[pending] - rounding[pending]
+                sel = np.flatnonzero(pending)
+                pending[sel[ok]] = False
+                a[sel[~ok]] *= 0.5
+                pending &= a > 1e-12
+            block = np.where(a < alpha, -1, block)
+            alpha = a
+        new = Lm + alpha[:, None] * st
+        for k in np.flatnonzero(block >= 0):
+            q = int(block[k])
+            p = todo[idx[k]]
+            rows = list(np.flatnonzero(W[p]))
+            if len(rows) < n_c and _independent(rows, A_s, q):
+                W[p, q] = True
+            # exactly on the constraint, so rounding does not make it look broken
+            new[k] += A_s[q] * ((mu_s[p, q] - A_s[q] @ new[k]) / (A_s[q] @ A_s[q]))
+        lam[todo[idx]] = new
+    return lam, W, nu, done, iterations
+
+
+def solve_many(system, ph, potential_v):
+    """Equilibria of a system at many points at once (ideal solution).
+
+    Parameters
+    ----------
+    system : MassBalanceSystem
+        Species, counts, planes and totals.
+    ph : array_like, shape (P,)
+        pH of each point.
+    potential_v : array_like, shape (P,)
+        Potential of each point [V vs SHE].
+
+    Returns
+    -------
+    list of EquilibriumResult
+        As :func:`solve_at` would give at each point (ideal solution). The
+        Newton steps of all points are taken together (one batched linear
+        solve per step); a point the batch does not settle is solved by
+        :func:`solve_at`.
+
+    Raises
+    ------
+    ConditionsError
+        Non-finite pH or potential.
+    EquilibriumError
+        A point that does not converge (the message names it).
+
+    Examples
+    --------
+    >>> from pourbaix.physics.components import build_system
+    >>> s = build_system("Cu", {"Cu": 1e-3})
+    >>> [s.names[int(r.amounts.argmax())] for r in solve_many(s, [2.0, 5.0], [0.6, -0.5])]
+    ['Cu^2+', 'Cu']
+    """
+    x = np.asarray(ph, dtype=float).ravel()
+    y = np.asarray(potential_v, dtype=float).ravel()
+    if x.shape != y.shape or not (np.all(np.isfinite(x)) and np.all(np.isfinite(y))):
+        raise ConditionsError("pH and potential must be finite arrays of one length")
+    prep = _prepared_for(system)
+    P = system.planes
+    mu = (P[:, 0] + np.outer(x, P[:, 1]) + np.outer(y, P[:, 2])) * (
+        math.log(10.0) / system.nernst_v
+    )
+    aq = prep.aq
+    lam, W, nu, done, iterations = _batch_newton(prep, mu[:, aq], mu[:, ~aq])
+    out = []
+    ln10 = math.log(10.0)
+    for k in range(len(x)):
+        if not done[k]:
+            out.append(solve_at(system, x[k], y[k]))
+            continue
+        m = np.exp(np.minimum(prep.A_aq @ lam[k] - mu[k, aq], _EXP_MAX))
+        amounts = np.zeros(len(system.names))
+        amounts[prep.aq_rows] = m
+        present = np.zeros(len(system.names), dtype=bool)
+        active = np.flatnonzero(W[k])
+        amounts[prep.solid_rows[active]] = np.maximum(nu[k, active], 0.0)
+        present[prep.solid_rows[active]] = True
+        rel = float(np.max(np.abs(prep.b - prep.A.T @ amounts) / prep.b))
+        if rel > MASS_TOLERANCE:
+            out.append(solve_at(system, x[k], y[k]))
+            continue
+        sat = np.zeros(len(system.names))
+        if len(prep.solid_rows):
+            sat[prep.solid_rows] = np.minimum((prep.A_s @ lam[k] - mu[k, ~aq]) / ln10, 0.0)
+            sat[prep.solid_rows[active]] = 0.0
+        out.append(
+            EquilibriumResult(
+                amounts=amounts,
+                present=present,
+                saturation=sat,
+                log_free=lam[k].copy(),
+                log_gamma=np.zeros(len(system.names)),
+                ionic_strength=float(0.5 * (m @ prep.zz)),
+                residual=rel,
+                iterations=int(iterations[k]),
+                active=tuple(int(prep.solid_rows[q]) for q in active),
+                energies_rt=mu[k].copy(),
+            )
+        )
+    return out
 
 
 _PITZER = {}  # (id(system), background) -> (system, function)

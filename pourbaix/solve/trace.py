@@ -60,16 +60,22 @@ class TracedCurves:
     evaluations: int
 
 
+_BATCH_MIN = 16  # fewer new points than this are classified one by one (warm starts)
+
+
 def _between(values, lo, hi):
     """The items v of a sorted list with lo <= v < hi."""
     return values[bisect.bisect_left(values, lo) : bisect.bisect_left(values, hi)]
 
 
 class _Tracer:
-    def __init__(self, classify, boundary, window, mesh, depth, tolerance, gradient=None):
+    def __init__(
+        self, classify, boundary, window, mesh, depth, tolerance, gradient=None, classify_many=None
+    ):
         self.classify_fn = classify
         self.boundary_fn = boundary
         self.gradient_fn = gradient
+        self.classify_many_fn = classify_many
         self.x0, self.x1, self.y0, self.y1 = window
         self.nx, self.ny = mesh
         self.depth = depth
@@ -81,6 +87,7 @@ class _Tracer:
         self.rows = {}  # cj -> sorted list of ci sampled
         self.cols = {}  # ci -> sorted list of cj sampled
         self.edge_points = {}  # ((ci, cj), (ci, cj)) -> list of (point, key_left, key_right)
+        self.recent = []  # points sampled since the quadtree's last pass
         self.evaluations = 0
 
     # -------------------------------------------------------------- points
@@ -95,10 +102,26 @@ class _Tracer:
         got = self.grid.get((ci, cj))
         if got is None:
             got = self.classify(*self.xy(ci, cj))
-            self.grid[(ci, cj)] = got
-            bisect.insort(self.rows.setdefault(cj, []), ci)
-            bisect.insort(self.cols.setdefault(ci, []), cj)
+            self._store(ci, cj, got)
         return got
+
+    def _store(self, ci, cj, got):
+        self.recent.append((ci, cj))
+        self.grid[(ci, cj)] = got
+        bisect.insort(self.rows.setdefault(cj, []), ci)
+        bisect.insort(self.cols.setdefault(ci, []), cj)
+
+    def at_many(self, cells):
+        """Classify the cells not yet sampled, in one call where a batch classifier is given."""
+        new = [c for c in dict.fromkeys(cells) if c not in self.grid]
+        if self.classify_many_fn is None or len(new) < _BATCH_MIN:
+            for c in new:
+                self.at(*c)
+            return
+        self.evaluations += len(new)
+        got = self.classify_many_fn([self.xy(*c) for c in new])
+        for c, g in zip(new, got, strict=True):
+            self._store(*c, g)
 
     def key(self, ci, cj):
         return self.at(ci, cj)[0]
@@ -132,23 +155,52 @@ class _Tracer:
             for i in range(self.nx)
             for j in range(self.ny)
         ]
-        for ci, cj, _ in todo:
-            self.at(ci, cj)
+        self.at_many(
+            [
+                (i * self.scale, j * self.scale)
+                for i in range(self.nx + 1)
+                for j in range(self.ny + 1)
+            ]
+        )
         changed = True
         leaves = todo
+        simple = set()  # leaves found simple, whose edges have had no sample since
         while changed:  # a split adds samples on neighbours' edges: look again until stable
             changed = False
-            nxt = []
+            rows, cols = {}, {}
+            for i, j in self.recent:
+                rows.setdefault(j, []).append(i)
+                cols.setdefault(i, []).append(j)
+            for v in (*rows.values(), *cols.values()):
+                v.sort()
+            self.recent = []
+
+            def touched(ci, cj, s, rows=rows, cols=cols):
+                for j in (cj, cj + s):
+                    if j in rows and _between(rows[j], ci, ci + s + 1):
+                        return True
+                for i in (ci, ci + s):
+                    if i in cols and _between(cols[i], cj, cj + s + 1):
+                        return True
+                return False
+
+            nxt, split = [], []
             for ci, cj, s in leaves:
-                if s > 1 and self.complex_cell(ci, cj, s):
+                if (ci, cj, s) in simple and not touched(ci, cj, s):
+                    nxt.append((ci, cj, s))
+                elif s > 1 and self.complex_cell(ci, cj, s):
                     h = s // 2
-                    for a, b in ((h, 0), (0, h), (h, h), (2 * h, h), (h, 2 * h)):
-                        self.at(ci + a, cj + b)  # sampled now, so every ring below sees them
+                    split += [
+                        (ci + a, cj + b)
+                        for a, b in ((h, 0), (0, h), (h, h), (2 * h, h), (h, 2 * h))
+                    ]
                     for a, b in ((0, 0), (h, 0), (0, h), (h, h)):
                         nxt.append((ci + a, cj + b, h))
                     changed = True
                 else:
+                    simple.add((ci, cj, s))
                     nxt.append((ci, cj, s))
+            self.at_many(split)  # the next pass sees them on every ring
             leaves = nxt
         return leaves
 
@@ -434,6 +486,7 @@ def trace_domains(
     depth=6,
     tolerance=(1e-3, 1e-4),
     gradient=None,
+    classify_many=None,
 ):
     """Trace the boundaries between the domains of a classification of the plane.
 
@@ -459,6 +512,10 @@ def trace_domains(
         (stopping when a step is below a tenth of the tolerance) instead of
         bracketing, and junctions use it as their Jacobian; where Newton's method
         leaves its bracket or meets a third domain, bracketing takes over.
+    classify_many : callable, optional
+        ``classify_many(points) -> list of (key, state)`` for a list of (pH, E):
+        the mesh and each round of the quadtree's new points are classified in
+        one call (e.g. a batched solve) instead of one call per point.
 
     Returns
     -------
@@ -498,4 +555,5 @@ def trace_domains(
         int(depth),
         tolerance,
         gradient,
+        classify_many,
     ).run()
