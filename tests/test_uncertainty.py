@@ -96,9 +96,11 @@ def _codata_u(u_dh, u_s, elements):
 # CODATA Key Values (Cox, Wagman & Medvedev 1989), printed +/- of dH [kJ/mol] and S [J/(mol K)]
 # (from memory): Al3+ 1.5 and 10; Al2O3 1.3 and 0.10; Mg2+ 0.6 and 4; MgO 0.30 and 0.15;
 # CdO 0.40 and 1.5; HgO (red) 0.12 and 0.30; Hg2Cl2 0.40 and 0.8; Hg2SO4 0.40 and 0.20;
-# elements Al(cr) 0.10, Mg(cr) 0.10, Cd(cr) 0.15, Hg(l) 0.12, S(rh) 0.050, H2(g) 0.003,
-# O2(g) 0.005, Cl2(g) 0.010. The hand-typed rows carry the value typed; the mercury and cadmium
-# rows get it from species_data/import/run_import.py.
+# BeO 2.5 and 0.04; UO2 1.0 and 0.20; UO2^2+ 1.5 and 3.0; MgF2 1.2 and 0.5;
+# elements Al(cr) 0.10, Mg(cr) 0.10, Cd(cr) 0.15, Hg(l) 0.12, Be(cr) 0.08, U(cr) 0.20,
+# S(rh) 0.050, H2(g) 0.003, O2(g) 0.005, Cl2(g) 0.010, F2(g) 0.005. The hand-typed rows carry
+# the value typed; the mercury, cadmium, beryllium, uranium and MgF2 rows get it from
+# species_data/import/run_import.py.
 CODATA_ROWS = [
     ("Al^3+", "aq", _codata_u(1.5, 10, [(1, 0.10), (1.5, 0.003)])),
     ("Al2O3", "s", _codata_u(1.3, 0.10, [(2, 0.10), (1.5, 0.005)])),
@@ -108,6 +110,11 @@ CODATA_ROWS = [
     ("HgO:montroydite", "s", _codata_u(0.12, 0.30, [(1, 0.12), (0.5, 0.005)])),
     ("Hg2Cl2:calomel", "s", _codata_u(0.40, 0.8, [(2, 0.12), (1, 0.010)])),
     ("Hg2SO4", "s", _codata_u(0.40, 0.20, [(2, 0.12), (1, 0.050), (2, 0.005)])),
+    ("BeO:bromellite", "s", _codata_u(2.5, 0.04, [(1, 0.08), (0.5, 0.005)])),
+    ("UO2:uraninite", "s", _codata_u(1.0, 0.20, [(1, 0.20), (1, 0.005)])),
+    # UO2^2+: U + O2 + 2 H+ = UO2^2+ + H2, so one H2 (charge / 2) enters the reaction
+    ("UO2^2+", "aq", _codata_u(1.5, 3.0, [(1, 0.20), (1, 0.005), (1, 0.003)])),
+    ("MgF2:sellaite", "s", _codata_u(1.2, 0.5, [(1, 0.10), (1, 0.005)])),
 ]
 
 
@@ -239,3 +246,14 @@ def test_a_row_moves_with_its_parent():
     metal = _share_along(r, "Zn", 4.0, potential)
     spread = potential[np.argmax(metal < 0.025)] - potential[np.argmax(metal < 0.975)]
     assert spread == pytest.approx(2 * 1.96 * 1.0 / (2 * 96.485), rel=0.35)  # [V]
+
+
+def test_only_species_of_the_maps_system_are_drawn_and_counted():
+    # MgF2 (CODATA89, u 0.60 kJ/mol) belongs to a magnesium map only when fluoride is present
+    plain = sample_maps("Mg", samples=10, default_uncertainty_kj_mol=0.0, seed=1)
+    fluoride = sample_maps(
+        "Mg", samples=10, default_uncertainty_kj_mol=0.0, seed=1, ligands={"F": 1e-3}
+    )
+    assert plain.stated == 2  # Mg2+ and MgO
+    assert fluoride.stated == 3  # and MgF2
+    assert fluoride.perturbed > plain.perturbed

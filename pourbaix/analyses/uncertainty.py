@@ -59,14 +59,19 @@ class UncertainMap:
     perturbed: int
 
 
-def _perturbed_tables(table, elements, count, default, seed):
+def _perturbed_tables(table, elements, count, default, seed, ligand_elements=frozenset()):
     import numpy as np
 
     rng = np.random.default_rng(seed)
+    # species of the map's chemical system: a metal, with only H, O and the ligands' elements
+    # beside it (a fluoride is not drawn on a map without fluoride, nor counted as stated)
+    allowed = set(elements) | set(ligand_elements) | {"H", "O"}
     chosen = [
         i
         for i, sp in enumerate(table.species)
-        if set(sp.composition) & set(elements) and sp.dgf_kj_mol != 0.0
+        if set(sp.composition) & set(elements)
+        and set(sp.composition) <= allowed
+        and sp.dgf_kj_mol != 0.0
     ]
     sigma = np.array(
         [
@@ -149,9 +154,14 @@ def sample_maps(
             map_keywords.get("dataset", "default"), tuple(map_keywords.get("data_files", ()))
         )
     nominal = compute_map(elements, table=table, **map_keywords)
+    from pourbaix.tables.ligands import resolve_ligand
+
     names = nominal.conditions.elements
+    ligand_elements = set()
+    for ligand in nominal.conditions.ligands or ():
+        ligand_elements |= resolve_ligand(ligand).elements
     tables, stated, perturbed = _perturbed_tables(
-        table, names, int(samples), float(default_uncertainty_kj_mol), seed
+        table, names, int(samples), float(default_uncertainty_kj_mol), seed, ligand_elements
     )
     maps = tuple(compute_map(elements, table=t, **map_keywords) for t in tables)
     return UncertainMap(nominal, maps, float(default_uncertainty_kj_mol), stated, perturbed)

@@ -395,9 +395,17 @@ CODATA_PLUS_MINUS = {
     "Montroydite": (0.12, 0.30),
     "Calomel": (0.40, 0.8),
     "Hg2SO4": (0.40, 0.20),
+    "Bromellite": (2.5, 0.04),
+    "Uraninite": (1.0, 0.20),
+    "UO2++": (1.5, 3.0),
+    "Sellaite": (1.2, 0.5),
 }
 CODATA_ELEMENT_S = {  # element: (atoms per mole of its reference form, +/- of its S)
+    "Be": (1, 0.08, "Be(cr) 9.50"),
     "Cd": (1, 0.15, "Cd(cr) 51.80"),
+    "F": (2, 0.005, "F2(g) 202.791"),
+    "Mg": (1, 0.10, "Mg(cr) 32.67"),
+    "U": (1, 0.20, "U(cr) 50.20"),
     "Hg": (1, 0.12, "Hg(l) 75.90"),
     "S": (1, 0.050, "S(rh) 32.054"),
     "O": (2, 0.005, "O2(g) 205.152"),
