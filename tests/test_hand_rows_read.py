@@ -89,3 +89,38 @@ def test_values_equal_the_file(read_rows):
                 KCAL if m.group(2).lower().startswith(("kcal", "cal")) else 1
             )
             assert value == pytest.approx(number, abs=1e-5), (s.name, key)
+
+
+def test_cross_checks_state_the_file_and_the_tables(read_rows):
+    """Rows still typed from memory carry the LLNL file's constant of another study.
+
+    Both numbers of the remark are recomputed: the file's printed log K at 25 C, and
+    the row's own constant for the same dissociation with the tables' values.
+    """
+    table, _ = read_rows
+    blocks = _blocks()
+    checked = close = 0
+    for s in table.species:
+        m = re.search(
+            r"cross-check: the LLNL file's entry '([^']+)' \(reference code [^)]*\) gives log K "
+            r"(\S+) for its dissociation where this row gives (\S+) with these tables",
+            s.note or "",
+        )
+        if not m:
+            continue
+        block = blocks[m.group(1)]
+        r = re.search(r"species in reaction\n(.*?)\n\s*([-\d.]+)\s+([-\d.]+)", block, re.S)
+        pairs = r.group(1).split()
+        basis = sum(
+            float(c) * table.get(*_species_name(n)).dgf_kj_mol
+            for c, n in zip(pairs[0::2], pairs[1::2], strict=True)
+            if n != "H+"
+        )
+        assert float(m.group(2)) == pytest.approx(float(r.group(3)), abs=0.006), s.name
+        ours = (s.dgf_kj_mol - basis) / RT_LN10
+        assert float(m.group(3)) == pytest.approx(ours, abs=0.006), s.name
+        checked += 1
+        close += abs(ours - float(r.group(3))) <= 0.3
+    assert checked >= 15
+    # most typed constants agree with the other study within 0.3 log units
+    assert close >= checked / 2

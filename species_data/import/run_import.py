@@ -1198,6 +1198,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
 
     index = SupcrtIndex(read_supcrt_cached(sup_path), sup_refs)
     llnl_index = _llnl_by_species(entries)
+    llnl_aqueous = _llnl_aqueous(entries)
     transitions: list[list[str]] = []
     out: dict[str, str] = {}
     for f in sorted(species_dir.glob("*.csv")):
@@ -1209,6 +1210,8 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
         rows = [_verified_by_crc(header, row, crc) for row in rows]
         if f.stem in HAND_TABLES:
             rows = [_read_from_llnl(header, row, llnl_index, gibbs_now[0], crc) for row in rows]
+        if f.stem in CROSS_TABLES:
+            rows = [_cross_check(header, row, llnl_aqueous, gibbs_now[0]) for row in rows]
         cols, rows = _with_parameters(header, rows, index, transitions)
         out[f.name] = _csv_text(cols, rows)
     for stem, rows in sorted(tables.items()):
@@ -1536,6 +1539,50 @@ def _llnl_by_species(entries) -> dict:
             continue
         out.setdefault((text, phase, form), e)
     return out
+
+
+# tables whose aqueous rows typed from memory get a cross-check against the LLNL file's constant
+# for the same species from another study (the typed value stays; the note gives both)
+CROSS_TABLES = HAND_TABLES + ("gold", "molybdenum", "silver", "tin", "chlorine", "cyanide")
+_CROSS = re.compile(r"; cross-check: the LLNL file[^;]*$")
+
+
+def _llnl_aqueous(entries) -> dict:
+    """LLNL aqueous entries with a log K at 25 C, by our formula text."""
+    out = {}
+    for e in entries:
+        if e.section != "aqueous species" or len(e.logk) < 2 or e.logk[1].startswith("500"):
+            continue
+        try:
+            out.setdefault(formula_text(e.name, "aqueous species", "")[0], e)
+        except FormulaError:
+            continue
+    return out
+
+
+def _cross_check(header, row, index, gibbs) -> list[str]:
+    """A row typed from memory with the LLNL file's constant for the same species beside it."""
+    values = dict(zip(header, row, strict=True))
+    note = _CROSS.sub("", values["note"])
+    if "from memory" not in note or values["phase"] != "aq":
+        return row
+    entry = index.get(parse_formula(values["formula"]).text)
+    if entry is None:
+        return row
+    try:
+        basis = sum(
+            float(c) * (0.0 if n == "H+" else float(gibbs[llnl_species(n)]))
+            for c, n in entry.reaction
+        )
+    except (KeyError, FormulaError):
+        return row
+    ours = (float(values["dgf_kj_mol"]) - basis) / RT_LN10
+    values["note"] = note + (
+        f"; cross-check: the LLNL file's entry '{entry.name}' (reference code {entry.source}) "
+        f"gives log K {float(entry.logk[1]):.2f} for its dissociation where this row gives "
+        f"{ours:.2f} with these tables ({ours - float(entry.logk[1]):+.2f})"
+    )
+    return [values[c] for c in header]
 
 
 def _read_from_llnl(header, row, index, gibbs, crc) -> list[str]:
