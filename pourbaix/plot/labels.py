@@ -229,22 +229,35 @@ def _segments_hit_boxes(segments, boxes):
 
 
 def _hit_matrix(segments, boxes):
-    """Whether segment s crosses box k, as a (K, S) array (Liang-Barsky clipping)."""
+    """Whether segment s crosses box k, as a (K, S) array (Liang-Barsky clipping).
+
+    Only the pairs whose bounding boxes meet are clipped (a segment outside a
+    box's bounds cannot cross it); on a crowded map most pairs are far apart.
+    """
     boxes = np.atleast_2d(np.asarray(boxes, dtype=float))
     s = np.asarray(segments, dtype=float).reshape(-1, 4)
-    x0, y0 = s[:, 0], s[:, 1]  # (S,)
-    dx, dy = s[:, 2] - x0, s[:, 3] - y0
-    bx0, by0, bx1, by1 = (boxes[:, k : k + 1] for k in range(4))  # (K, 1)
-    # the four clipping conditions p_k t <= q_k, each broadcast to (K, S)
-    shape = (len(boxes), len(s))
-    pk = np.stack([np.broadcast_to(v, shape) for v in (-dx, dx, -dy, dy)])
-    qk = np.stack([np.broadcast_to(v, shape) for v in (x0 - bx0, bx1 - x0, y0 - by0, by1 - y0)])
+    near = (
+        (boxes[:, 0:1] <= np.maximum(s[:, 0], s[:, 2]))
+        & (boxes[:, 2:3] >= np.minimum(s[:, 0], s[:, 2]))
+        & (boxes[:, 1:2] <= np.maximum(s[:, 1], s[:, 3]))
+        & (boxes[:, 3:4] >= np.minimum(s[:, 1], s[:, 3]))
+    )
+    k, j = np.nonzero(near)
+    if not len(k):
+        return near
+    x0, y0 = s[j, 0], s[j, 1]  # one entry per pair
+    dx, dy = s[j, 2] - x0, s[j, 3] - y0
+    bx0, by0, bx1, by1 = (boxes[k, c] for c in range(4))
+    # the four clipping conditions p_c t <= q_c
+    pk = np.stack([-dx, dx, -dy, dy])
+    qk = np.stack([x0 - bx0, bx1 - x0, y0 - by0, by1 - y0])
     parallel_out = np.any((pk == 0) & (qk < 0), axis=0)
     with np.errstate(divide="ignore", invalid="ignore"):
         r = qk / pk
     t0 = np.max(np.where(pk < 0, r, 0.0), axis=0)
     t1 = np.min(np.where(pk > 0, r, 1.0), axis=0)
-    return ~parallel_out & (t0 <= t1)
+    near[k, j] = ~parallel_out & (t0 <= t1)
+    return near
 
 
 def _cross_matrix(first, second):
