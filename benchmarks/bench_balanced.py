@@ -9,8 +9,8 @@ CN 1e-3 mol/kg) over the default window (pH -2..16, -2..2 V):
   equilibrium solves, with the time per solve;
 - the dense grid at 0.05 pH x 5 mV (361 x 801 points, the naive way): its
   number of solves and its time, extrapolated from timing every 20th row of
-  the grid with warm starts along each row (the fastest fair way to solve a
-  grid with this solver);
+  the grid, the faster of warm starts along each row and each row as one
+  batched solve (``solve_many``);
 - the ratios. Targets (issue 15): <= 1 s per map, >= 50x fewer solves;
 - with ``--cli``, the wall time of the issue's three commands as a user runs
   them (``python -m pourbaix.cli ...`` in a fresh interpreter: imports, table
@@ -42,8 +42,13 @@ def _median_time(fn, repeat):
 
 
 def _grid_time(system, ph, e, every=20):
-    """Seconds to solve the whole grid, from every ``every``-th row (warm starts along a row)."""
-    from pourbaix.solve.equilibrium import solve_at
+    """Seconds to solve the whole grid, from every ``every``-th row.
+
+    Two ways, the faster counts: one point at a time with warm starts along the row, and
+    each row as one batch (``solve_many``, the batched Newton steps the traced map uses for
+    its mesh).
+    """
+    from pourbaix.solve.equilibrium import solve_at, solve_many
 
     rows = e[::every]
     t = time.perf_counter()
@@ -51,8 +56,12 @@ def _grid_time(system, ph, e, every=20):
         r = None
         for p in ph:
             r = solve_at(system, p, ev, start=r)
-    per_row = (time.perf_counter() - t) / len(rows)
-    return per_row * len(e)
+    one_by_one = (time.perf_counter() - t) / len(rows) * len(e)
+    t = time.perf_counter()
+    for ev in rows:
+        solve_many(system, ph, np.full(len(ph), ev))
+    batched = (time.perf_counter() - t) / len(rows) * len(e)
+    return min(one_by_one, batched), one_by_one, batched
 
 
 #: The commands of the issue's "Done when" (output file names as there).
@@ -116,7 +125,7 @@ def main(argv=None):
         run()  # warm-up
         t, m = _median_time(run, a.repeat)
         grid = len(ph) * len(e)
-        t_grid = _grid_time(m.system, ph, e)
+        t_grid, t_one, t_batch = _grid_time(m.system, ph, e)
         name = f"{metal}-{'-'.join(k for k in totals if k != metal)}"
         print(
             f"{name}: traced map {t:.2f} s (median of {a.repeat}), {m.solves} solves "
@@ -124,7 +133,8 @@ def main(argv=None):
             f"{len(m.boundaries)} boundary segments"
         )
         print(
-            f"{name}: dense grid {grid} solves, about {t_grid:.0f} s; "
+            f"{name}: dense grid {grid} solves, about {t_grid:.0f} s (one by one {t_one:.0f} s, "
+            f"row batches {t_batch:.0f} s); "
             f"{grid / m.solves:.0f}x fewer solves, {t_grid / t:.0f}x faster "
             f"(targets: <= 1 s per map, >= 50x fewer solves)"
         )
