@@ -627,8 +627,9 @@ def compute_balanced_map(
             else "ideal solution (activity = molality; give an ionic strength or background to apply a model)"
         )
         + f"; domains: {criterion}; curved boundaries traced to {tol_ph:g} pH and "
-        f"{tol_v * 1000:g} mV from a {mesh[0]} x {mesh[1]} mesh (regula falsi on mesh edges, "
-        "chords corrected along their normals, junctions by Newton); "
+        f"{tol_v * 1000:g} mV from a {mesh[0]} x {mesh[1]} mesh (Newton's method with the "
+        "solver's implicit-function derivatives on mesh edges and along chord normals, "
+        "bracketing where it fails; junctions by Newton); "
         + "; ".join(f.suppressed for f, _ in families if f.suppressed)
     ).rstrip("; ")
     seen = {names[k] for k in by_key}

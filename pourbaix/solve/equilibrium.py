@@ -843,39 +843,39 @@ def solve_many(system, ph, potential_v):
     )
     aq = prep.aq
     lam, W, nu, done, iterations = _batch_newton(prep, mu[:, aq], mu[:, ~aq])
-    out = []
     ln10 = math.log(10.0)
+    n_species = len(system.names)
+    m = np.exp(np.minimum(lam @ prep.A_aq.T - mu[:, aq], _EXP_MAX))
+    amounts = np.zeros((len(x), n_species))
+    amounts[:, prep.aq_rows] = m
+    present = np.zeros((len(x), n_species), dtype=bool)
+    saturation = np.zeros((len(x), n_species))
+    if len(prep.solid_rows):
+        amounts[:, prep.solid_rows] = np.where(W, np.maximum(nu, 0.0), 0.0)
+        present[:, prep.solid_rows] = W
+        saturation[:, prep.solid_rows] = np.where(
+            W, 0.0, np.minimum((lam @ prep.A_s.T - mu[:, ~aq]) / ln10, 0.0)
+        )
+    rel = np.max(np.abs(prep.b - amounts @ prep.A) / prep.b, axis=1)
+    ionic = 0.5 * (m @ prep.zz)
+    zeros = np.zeros(n_species)
+    out = []
     for k in range(len(x)):
-        if not done[k]:
-            out.append(solve_at(system, x[k], y[k]))
+        if not done[k] or rel[k] > MASS_TOLERANCE:
+            out.append(solve_at(system, x[k], y[k]))  # the batch did not settle this point
             continue
-        m = np.exp(np.minimum(prep.A_aq @ lam[k] - mu[k, aq], _EXP_MAX))
-        amounts = np.zeros(len(system.names))
-        amounts[prep.aq_rows] = m
-        present = np.zeros(len(system.names), dtype=bool)
-        active = np.flatnonzero(W[k])
-        amounts[prep.solid_rows[active]] = np.maximum(nu[k, active], 0.0)
-        present[prep.solid_rows[active]] = True
-        rel = float(np.max(np.abs(prep.b - prep.A.T @ amounts) / prep.b))
-        if rel > MASS_TOLERANCE:
-            out.append(solve_at(system, x[k], y[k]))
-            continue
-        sat = np.zeros(len(system.names))
-        if len(prep.solid_rows):
-            sat[prep.solid_rows] = np.minimum((prep.A_s @ lam[k] - mu[k, ~aq]) / ln10, 0.0)
-            sat[prep.solid_rows[active]] = 0.0
         out.append(
             EquilibriumResult(
-                amounts=amounts,
-                present=present,
-                saturation=sat,
-                log_free=lam[k].copy(),
-                log_gamma=np.zeros(len(system.names)),
-                ionic_strength=float(0.5 * (m @ prep.zz)),
-                residual=rel,
+                amounts=amounts[k],
+                present=present[k],
+                saturation=saturation[k],
+                log_free=lam[k],
+                log_gamma=zeros,
+                ionic_strength=float(ionic[k]),
+                residual=float(rel[k]),
                 iterations=int(iterations[k]),
-                active=tuple(int(prep.solid_rows[q]) for q in active),
-                energies_rt=mu[k].copy(),
+                active=tuple(prep.solid_rows[W[k]].tolist()),
+                energies_rt=mu[k],
             )
         )
     return out

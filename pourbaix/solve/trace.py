@@ -24,6 +24,13 @@ f(pH, E) = 0. They are traced as follows (Allgower & Georg 1990, ch. 1 and
    functions vanish is solved as a 2 x 2 system by Newton's method with a
    finite-difference Jacobian, and the crossings of the cell join it.
 
+With a ``gradient`` of the boundary functions (for equilibria, from the
+implicit-function theorem), steps 3-5 take Newton steps instead (stopping
+when a step is below a tenth of the tolerance; bracketing takes over where
+Newton's method leaves its bracket or meets a third domain), and with a
+``classify_many`` the mesh, each round of the quadtree, and each Newton round
+over all edges and all chords are classified in one batch.
+
 The caller supplies ``classify(ph, e) -> (key, state)`` and
 ``boundary(state, key_a, key_b) -> float`` (negative on a's side, positive on
 b's); this module knows nothing of chemistry.
@@ -453,9 +460,152 @@ class _Tracer:
                 return (float(p[0]), float(p[1]))
         return tuple(guess)
 
+    def classify_points(self, points):
+        """Classify a list of points, in one batch where a batch classifier is given."""
+        if self.classify_many_fn is None or len(points) < _BATCH_MIN:
+            return [self.classify(*x) for x in points]
+        self.evaluations += len(points)
+        return self.classify_many_fn(points)
+
+    def batch_crossings(self, edges):
+        """Newton's method on many edges at once: each round solves all edges' iterates together.
+
+        Edges that meet a third domain, leave their bracket or do not settle in a few rounds
+        are left to :meth:`crossings` (called by :meth:`edge`).
+        """
+        work = []
+        for a, b in edges:
+            (kp, sp), (kq, sq) = self.grid[a], self.grid[b]
+            p, q = self.xy(*a), self.xy(*b)
+            seg = (q[0] - p[0], q[1] - p[1])
+            steps = [
+                (abs(d), t + d)
+                for t, st in ((0.0, sp), (1.0, sq))
+                if (d := self._step(st, self.boundary_fn(st, kp, kq), kp, kq, seg)) is not None
+            ]
+            if steps:
+                t = min(steps)[1]
+                if 0.0 < t < 1.0:
+                    work.append([(a, b), p, q, kp, kq, seg, self._t_tolerance(p, q), 0.0, 1.0, t])
+        for _ in range(6):
+            if not work:
+                return
+            got = self.classify_points(
+                [(w[1][0] + w[9] * w[5][0], w[1][1] + w[9] * w[5][1]) for w in work]
+            )
+            nxt = []
+            for w, (k, st) in zip(work, got, strict=True):
+                key, p, q, kp, kq, seg, tol_t, lo, hi, t = w
+                if k not in (kp, kq):
+                    continue  # a third domain between: bracketing sorts it out
+                d = self._step(st, self.boundary_fn(st, kp, kq), kp, kq, seg)
+                if d is None:
+                    continue
+                if abs(d) <= 0.1 * tol_t:
+                    t = min(max(t + d, lo), hi)
+                    self.edge_points[key] = [((p[0] + t * seg[0], p[1] + t * seg[1]), kp, kq)]
+                    continue
+                lo, hi = (t, hi) if k == kp else (lo, t)
+                if lo < t + d < hi:
+                    nxt.append([key, p, q, kp, kq, seg, tol_t, lo, hi, t + d])
+            work = nxt
+
+    def batch_refine(self, chords):
+        """:meth:`refine` for many chords at once: each round solves all chords' points together.
+
+        ``chords`` is a list of (p, q, key_a, key_b); returns, for each, the points strictly
+        between p and q. A chord whose corrector does not settle in a few rounds (or leaves
+        the window) is refined by :meth:`refine` alone.
+        """
+        nodes = []  # [p, q, ka, kb, level, result]; result: list, or (left node, r, right node)
+        todo = []
+        for p, q, ka, kb in chords:
+            nodes.append([p, q, ka, kb, 0, None])
+            todo.append(len(nodes) - 1)
+        tx, ty = self.tol
+
+        def inside(x):
+            return self.x0 <= x[0] <= self.x1 and self.y0 <= x[1] <= self.y1
+
+        while todo:
+            work = []  # [node, mid, normal, length, d]
+            for i in todo:
+                p, q, ka, kb, level, _ = nodes[i]
+                u = ((q[0] - p[0]) / tx, (q[1] - p[1]) / ty)
+                length = math.hypot(*u)
+                if level > 12 or length <= 2.0:
+                    nodes[i][5] = []
+                    continue
+                normal = (-u[1] / length, u[0] / length)
+                work.append([i, (0.5 * (p[0] + q[0]), 0.5 * (p[1] + q[1])), normal, length, 0.0])
+            todo = []
+            for rnd in range(7):
+                if not work:
+                    break
+                points = [
+                    (w[1][0] + w[4] * w[2][0] * tx, w[1][1] + w[4] * w[2][1] * ty) for w in work
+                ]
+                got = self.classify_points(points)
+                nxt = []
+                for w, x, (k, st) in zip(work, points, got, strict=True):
+                    i, mid, normal, length, d = w
+                    p, q, ka, kb, level, _ = nodes[i]
+                    if k not in (ka, kb):
+                        nodes[i][5] = []  # another domain comes close: the chord stays
+                        continue
+                    f = self.boundary_fn(st, ka, kb)
+                    g = self.gradient_fn(st, ka, kb)
+                    slope = g[0] * normal[0] * tx + g[1] * normal[1] * ty
+                    if not (math.isfinite(slope) and math.isfinite(f)) or slope == 0:
+                        nodes[i][5] = self.refine(p, q, ka, kb, level)
+                        continue
+                    dd = -f / slope
+                    if rnd == 0 and abs(dd) <= 0.5:
+                        nodes[i][5] = []  # the curve passes within tolerance of the midpoint
+                        continue
+                    d += dd
+                    x = (mid[0] + d * normal[0] * tx, mid[1] + d * normal[1] * ty)
+                    if rnd and abs(dd) <= 0.1:  # converged: a step of a tenth of the tolerance
+                        if abs(d) <= 1.0:
+                            nodes[i][5] = []
+                            continue
+                        nodes.append([p, x, ka, kb, level + 1, None])
+                        nodes.append([x, q, ka, kb, level + 1, None])
+                        nodes[i][5] = (len(nodes) - 2, x, len(nodes) - 1)
+                        todo += [len(nodes) - 2, len(nodes) - 1]
+                        continue
+                    if abs(d) > 0.5 * length or not inside(x) or rnd == 6:
+                        nodes[i][5] = self.refine(p, q, ka, kb, level)
+                        continue
+                    nxt.append([i, mid, normal, length, d])
+                work = nxt
+            for w in work:  # not settled in the rounds allowed
+                i = w[0]
+                nodes[i][5] = self.refine(*nodes[i][:5])
+
+        def assemble(i):
+            res = nodes[i][5]
+            if isinstance(res, tuple):
+                left, r, right = res
+                return assemble(left) + [r] + assemble(right)
+            return list(res)
+
+        return [assemble(i) for i in range(len(chords))]
+
     def run(self):
         segments = []
-        for ci, cj, s in self.leaves():
+        leaves = self.leaves()
+        if self.gradient_fn is not None and self.classify_many_fn is not None:
+            edges = {}
+            for ci, cj, s in leaves:
+                pts = self.ring(ci, cj, s)
+                for k in range(len(pts)):
+                    a, b = sorted((pts[k], pts[(k + 1) % len(pts)]))
+                    if self.grid[a][0] != self.grid[b][0]:
+                        edges[(a, b)] = None
+            self.batch_crossings(list(edges))
+        chords = []
+        for ci, cj, s in leaves:
             pts = self.ring(ci, cj, s)
             found = []
             for k in range(len(pts)):
@@ -465,14 +615,19 @@ class _Tracer:
             if len(found) == 2:
                 (p, ka, kb), (q, _, _) = found
                 # walking the ring counter-clockwise: ka lies before p, i.e. to the right of p -> q
-                mid = self.refine(p, q, ka, kb)
-                segments.append((ka, kb, np.array([p, *mid, q])))
+                chords.append((p, q, ka, kb))
                 continue
             x0, y0 = self.xy(ci, cj)
             x1, y1 = self.xy(ci + s, cj + s)
             j = self.junction(found, (x0, y0, x1, y1))
             for pt, k1, k2 in found:
                 segments.append((k1, k2, np.array([pt, j])))
+        if self.gradient_fn is not None and self.classify_many_fn is not None:
+            inner = self.batch_refine(chords)
+        else:
+            inner = [self.refine(p, q, ka, kb) for p, q, ka, kb in chords]
+        for (p, q, ka, kb), mid in zip(chords, inner, strict=True):
+            segments.append((ka, kb, np.array([p, *mid, q])))
         samples = {self.xy(*ij): v[0] for ij, v in self.grid.items()}
         return TracedCurves(segments, samples, self.evaluations)
 
