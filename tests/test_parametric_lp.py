@@ -19,7 +19,7 @@ import pytest
 from scipy.optimize import linprog
 
 from pourbaix.errors import ConditionsError, PourbaixError
-from pourbaix.maps.systems import compute_system_map
+from pourbaix.maps.systems import compute_system_map, units_at_ratio
 from pourbaix.solve import parametric_lp
 from pourbaix.tables.species import load_species
 
@@ -185,6 +185,18 @@ def test_envelope_of_regions_equals_the_envelope_solve(k):
         assert edges(ours) == edges(ref)
 
 
+def test_envelope_of_regions_refuses_planes_that_overlap():
+    # two combinations with one plane (equal energy everywhere) would both own the same
+    # domain: not a tiling, so the caller solves the envelope itself
+    costs, counts, ratio = [[0, 0, 0], [0, 0, 0], [-1, 0.1, 0]], [[1, 0], [0, 1], [1, 1]], [1, 1]
+    regions = parametric_lp.walk(costs, counts, ratio, (0, 14, -1, 1))
+    combos = parametric_lp.combinations_of(regions)
+    planes = [n @ np.asarray(costs, dtype=float)[list(c)] for c, n in combos]
+    assert parametric_lp.envelope_of_regions(regions, planes, (0, 14, -1, 1)) is not None
+    twice = [*planes, planes[0]]
+    assert parametric_lp.envelope_of_regions(regions, twice, (0, 14, -1, 1)) is None
+
+
 def test_critical_region_of_a_textbook_case():
     # Two metals and a 1:1 compound whose cost -1 + 0.1 pH per formula unit
     # (0.5 formula units per mole of metal) beats the pure metals below pH 10:
@@ -272,6 +284,37 @@ def _boundaries(m):
         )
         for b in m.boundaries
     )
+
+
+def test_units_at_another_ratio_are_the_maps_at_that_ratio():
+    # one map's species walked at other ratios against the map computed at each ratio by
+    # the enumeration (the reference): the same assemblages, planes and areas
+    rng = np.random.default_rng(1617)
+    m = compute_system_map(("Fe", "Cr", "Ni"), ratio=(70, 19, 11), temperature_c=80.0, table=TABLE)
+    for _ in range(3):
+        ratio = tuple(float(v) for v in rng.integers(1, 100, size=3))
+        units, areas = units_at_ratio(m, ratio)
+        ref = compute_system_map(
+            ("Fe", "Cr", "Ni"),
+            ratio=ratio,
+            temperature_c=80.0,
+            table=TABLE,
+            ratio_method="enumerate",
+        )
+        ref_areas = {}
+        for d in ref.domains:
+            ref_areas[d.species] = ref_areas.get(d.species, 0.0) + d.area
+        ours = {u.names: a for u, a in zip(units, areas, strict=True)}
+        assert set(ours) == set(ref_areas)
+        for names, area in ref_areas.items():
+            assert ours[names] == pytest.approx(area, abs=1e-9)
+        planes = {e.names: e.plane for e in ref.entries}
+        for u in units:
+            np.testing.assert_allclose(u.plane, planes[u.names], atol=1e-12)
+    with pytest.raises(PourbaixError, match="several metals without ligands"):
+        units_at_ratio(compute_system_map(("Fe",), ligands={"Cl": 0.1}, table=TABLE), (1,))
+    with pytest.raises(PourbaixError, match="needs 3 amounts"):
+        units_at_ratio(m, (1, 1))
 
 
 def test_walk_covers_five_and_more_metals():
