@@ -171,7 +171,10 @@ FROM_THERMODDEM = {
         "Baron & Palmer's solubility measurement replaces the older value of Kashkay et al. 1975 "
         "(LLNL); the Thermoddem file prints code 96abar/pal, which its reference list gives to "
         "the same authors' paper on the chromate analogue: the value is that of their jarosite "
-        "paper (96bbar/pal)",
+        "paper (96bbar/pal). No dH or S: the file's reaction enthalpy (-103.2 kJ/mol, Drouet & "
+        "Navrotsky 2003) with this dG and the tables' ions gives S near 170 J/(mol K), implausibly low "
+        "for this 28-atom solid, so jarosite keeps its 25 C dG at other temperatures (the map "
+        "says so)",
     ),
 }
 # reference codes of studies that report equilibrium constants: an addition from such a study
