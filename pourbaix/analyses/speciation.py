@@ -290,7 +290,7 @@ def compute_speciation(
     """
     from pourbaix.conditions import check_range, make_conditions
     from pourbaix.physics.components import build_system, parse_totals
-    from pourbaix.solve.equilibrium import solve_at
+    from pourbaix.solve.equilibrium import solve_at, solve_many
     from pourbaix.tables.species import load_species
 
     if (potential_v is None) == (ph is None):
@@ -354,7 +354,12 @@ def compute_speciation(
     r = None
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")
-        for n, v in enumerate(x):
+        if model is None:  # ideal solution: every point in one batch of Newton steps
+            ph_all = x if axis == "ph" else np.full(points, fixed)
+            e_all = np.full(points, fixed) if axis == "ph" else x
+            for n, r in enumerate(solve_many(system, ph_all, conditions.to_she(ph_all, e_all))):
+                amounts[n], present[n], ionic[n] = r.amounts, r.present, r.ionic_strength
+        for n, v in enumerate(x if model is not None else ()):
             p, e = (v, fixed) if axis == "ph" else (fixed, v)
             r = solve_at(
                 system,
