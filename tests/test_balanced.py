@@ -316,8 +316,12 @@ def test_lines_list_the_traced_curves(au_cn):
     assert not solve_at(system, 10.5, e + 1e-4).present[gold]
 
 
-def test_cli_lines_of_a_balanced_map(capsys):
+def test_cli_lines_of_a_balanced_map(capsys, tmp_path):
     args = ["lines", "Au", "--total", "Au=1e-5", "--total", "CN=1e-3", "--balance"]
+    report = tmp_path / "lines.md"
+    assert main([*args, "--ph", "8", "12", "--potential", "-1", "0", "--report", str(report)]) == 0
+    assert "a traced curve, no single reaction" in report.read_text(encoding="utf-8")
+    capsys.readouterr()
     assert main([*args, "--ph", "8", "12", "--potential", "-1", "0"]) == 0
     printed = capsys.readouterr().out
     assert "traced curve" in printed and "0.1 mV" in printed

@@ -453,7 +453,12 @@ def _boundary_rows(dmap, names):
             {
                 "n": i,
                 "between": " | ".join(_pretty(b, names) for b in r["between"]),
-                "reaction": r.get("reaction") or "(assemblage boundary: line only)",
+                "reaction": r.get("reaction")
+                or (
+                    "(mass balance: a traced curve, no single reaction)"
+                    if r.get("points")
+                    else "(assemblage boundary: line only)"
+                ),
                 "constant": const,
                 "nernst": r.get("nernst") or "",
                 "line": r["line"],
