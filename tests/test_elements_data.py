@@ -62,10 +62,17 @@ def test_new_element_maps_tile_the_window(element):
 
 def test_datasets_counts_the_rows_typed_from_memory(capsys):
     rows = load_species().species
-    typed = [s for s in rows if "from memory" in s.note]
+    # a note speaks of the value first; its stated uncertainty's remark begins "u(dG) ="
+    typed = [s for s in rows if "from memory" in s.note.split("u(dG) =")[0]]
+    uncertain = [s for s in rows if "from memory" in s.note.partition("u(dG) =")[2]]
     assert main(["datasets"]) == 0
     out = capsys.readouterr().out
     assert f"{len(typed)} of {len(rows)} rows of the default data set were typed from memory" in out
+    assert f"{len(uncertain)} rows carry a standard uncertainty typed" in out
+    # cassiterite: dH and S are CODATA key values the CRC table reprints (not typed from memory);
+    # only their +/- was
+    sno2 = load_species().get("SnO2", "s")
+    assert sno2 not in typed and sno2 in uncertain
     # every imported row names the file it was read from, none of its read values is typed from
     # memory; the CODATA uncertainty the import adds to a few rows (typed from the printed table,
     # from memory) follows "; u(dG) =" and says so there

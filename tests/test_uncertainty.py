@@ -97,7 +97,9 @@ def _codata_u(u_dh, u_s, elements):
 # (from memory): Al3+ 1.5 and 10; Al2O3 1.3 and 0.10; Mg2+ 0.6 and 4; MgO 0.30 and 0.15;
 # CdO 0.40 and 1.5; HgO (red) 0.12 and 0.30; Hg2Cl2 0.40 and 0.8; Hg2SO4 0.40 and 0.20;
 # BeO 2.5 and 0.04; UO2 1.0 and 0.20; UO2^2+ 1.5 and 3.0; MgF2 1.2 and 0.5;
+# Sn2+ 1.0 and 4.0; SnO 0.20 and 0.30; SnO2 0.20 and 0.10; TiO2 (rutile) 0.8 and 0.30;
 # elements Al(cr) 0.10, Mg(cr) 0.10, Cd(cr) 0.15, Hg(l) 0.12, Be(cr) 0.08, U(cr) 0.20,
+# Sn(cr, white) 0.08, Ti(cr) 0.10,
 # S(rh) 0.050, H2(g) 0.003, O2(g) 0.005, Cl2(g) 0.010, F2(g) 0.005. The hand-typed rows carry
 # the value typed; the mercury, cadmium, beryllium, uranium and MgF2 rows get it from
 # species_data/import/run_import.py.
@@ -115,6 +117,10 @@ CODATA_ROWS = [
     # UO2^2+: U + O2 + 2 H+ = UO2^2+ + H2, so one H2 (charge / 2) enters the reaction
     ("UO2^2+", "aq", _codata_u(1.5, 3.0, [(1, 0.20), (1, 0.005), (1, 0.003)])),
     ("MgF2:sellaite", "s", _codata_u(1.2, 0.5, [(1, 0.10), (1, 0.005)])),
+    ("Sn^2+", "aq", _codata_u(1.0, 4.0, [(1, 0.08), (1, 0.003)])),
+    ("SnO", "s", _codata_u(0.20, 0.30, [(1, 0.08), (0.5, 0.005)])),
+    ("SnO2", "s", _codata_u(0.20, 0.10, [(1, 0.08), (1, 0.005)])),
+    ("TiO2", "s", _codata_u(0.8, 0.30, [(1, 0.10), (1, 0.005)])),
 ]
 
 

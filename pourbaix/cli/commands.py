@@ -578,15 +578,18 @@ def cmd_references(a):
 
 def cmd_datasets(a):
     """List the data sets."""
-    from pourbaix.tables.species import available_datasets, load_species
+    from pourbaix.tables.species import available_datasets, load_species, typed_from_memory
 
     for name, desc in available_datasets().items():
         print(f"{name}: {desc}")
     rows = load_species().species
-    typed = sum("from memory" in (s.note or "") for s in rows)
+    marks = [typed_from_memory(s) for s in rows]
+    typed = sum(value for value, _ in marks)
+    uncertain = sum(unc for _, unc in marks)
     print(
         f"\n{typed} of {len(rows)} rows of the default data set were typed from memory "
-        "(their notes say so and why); `pourbaix elements` shows which elements hold them"
+        "(their notes say so and why); `pourbaix elements` shows which elements hold them. "
+        f"{uncertain} rows carry a standard uncertainty typed from the printed table from memory."
     )
     return 0
 

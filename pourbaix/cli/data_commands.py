@@ -36,8 +36,11 @@ def element_summary(table) -> list[dict]:
     list of dict
         ``element``, ``species`` (count), ``solids``, ``aqueous``, ``sources`` (keys, most
         used first), ``routes`` (temperature routes some rows allow), ``from_memory``
-        (rows whose note says their value was typed from memory), sorted by element.
+        (rows whose note says their value was typed from memory), ``uncertainty_from_memory``
+        (rows whose stated uncertainty was), sorted by element.
     """
+    from pourbaix.tables.species import typed_from_memory
+
     by_element: dict[str, list] = {}
     for sp in table.species:
         for el in sp.elements:
@@ -57,7 +60,8 @@ def element_summary(table) -> list[dict]:
                 "aqueous": sum(s.phase == "aq" for s in rows),
                 "sources": sorted(counts, key=lambda k: (-counts[k], k)),
                 "routes": _routes(rows),
-                "from_memory": sum("from memory" in (s.note or "") for s in rows),
+                "from_memory": sum(typed_from_memory(s)[0] for s in rows),
+                "uncertainty_from_memory": sum(typed_from_memory(s)[1] for s in rows),
             }
         )
     return out

@@ -26,7 +26,36 @@ __all__ = [
     "data_dir",
     "load_species",
     "read_species_file",
-    "read_sources_file", "parse_number", "read_csv_rows", "read_sources", "source_files",]
+    "read_sources_file",
+    "parse_number",
+    "read_csv_rows",
+    "read_sources",
+    "source_files",
+    "typed_from_memory",
+]
+
+def typed_from_memory(species):
+    """Whether a row's note says its value, or its stated uncertainty, was typed from memory.
+
+    The remark on a stated uncertainty begins with ``u(dG) =`` and comes after
+    everything the note says about the value (a convention of these tables).
+
+    Parameters
+    ----------
+    species : Species
+        A table row.
+
+    Returns
+    -------
+    tuple of (bool, bool)
+        (the value was typed from memory, the uncertainty was).
+    """
+    note = species.note or ""
+    at = note.find("u(dG) =")
+    if at < 0:
+        return "from memory" in note, False
+    return "from memory" in note[:at], "from memory" in note[at:]
+
 
 # column -> (unit as written in messages, required)  -- DEVELOPERS.md, "Species tables"
 COLUMNS: dict[str, tuple[str, bool]] = {
