@@ -330,3 +330,29 @@ def test_cli_lines_of_a_balanced_map(capsys, tmp_path):
     rows = json.loads(out[out.index("[") :])
     assert [set(r["between"]) for r in rows] == [{"Au", "Au(CN)2^-"}]
     assert len(rows[0]["points"]) > 5
+
+
+@pytest.mark.parametrize("name", ["cu_nh3", "au_cn"])
+def test_curves_meet_at_their_triple_points(name, request):
+    # where three traced curves end at one point, the solver (checked against scipy in
+    # test_equilibrium) finds three domains within two tolerances of it
+    from collections import Counter
+
+    m = request.getfixturevalue(name)
+    tol_ph, tol_v = m.tolerance
+    ends = Counter(tuple(p) for c in m.curves for p in (c.points[0], c.points[-1]))
+    x0, x1, y0, y1 = m.window
+    triple = [p for p, n in ends.items() if n >= 3 and x0 < p[0] < x1 and y0 < p[1] < y1]
+    assert triple
+    for ph, e in triple:
+        keys = {
+            point_key(m.system, solve_at(m.system, ph + dx, e + dy))
+            for dx in (-2 * tol_ph, 0.0, 2 * tol_ph)
+            for dy in (-2 * tol_v, 0.0, 2 * tol_v)
+        }
+        assert len(keys) == 3, (ph, e)
+    # and no curve of a pair ends loose near a triple point of that pair
+    for c in m.curves:
+        for p in (c.points[0], c.points[-1]):
+            on_border = p[0] in (x0, x1) or p[1] in (y0, y1)
+            assert on_border or ends[tuple(p)] >= 2, (c.between, p)

@@ -38,8 +38,7 @@ class TracedCurve:
     Attributes
     ----------
     between : tuple of str
-        The two domains (names as in ``domains``), the first on the right of
-        the direction of ``points``.
+        The two domains (names as in ``domains``).
     points : numpy.ndarray, shape (k, 2)
         Vertices (pH, E vs the map's reference) [-, V]; each lies within the
         map's tolerance of the boundary, and so does each chord's midpoint.
@@ -53,36 +52,40 @@ def _chain(segments, names):
     """Join the traced pieces of each pair of domains into polylines, end to end.
 
     Pieces of one boundary share their end points exactly (neighbouring cells
-    share their edge crossings), so they are chained by exact coordinates.
+    share their edge crossings and triple points), so they are chained by exact
+    coordinates, either way round.
     """
     pieces = {}
     for ka, kb, pts in segments:
         if len(pts) < 2:
             continue
-        a, b = names[ka], names[kb]
-        if (b, a) in pieces or (a > b and (a, b) not in pieces):
-            a, b, pts = b, a, np.asarray(pts)[::-1]
-        pieces.setdefault((a, b), []).append([tuple(map(float, p)) for p in pts])
+        pair = tuple(sorted((names[ka], names[kb])))
+        pieces.setdefault(pair, []).append([tuple(map(float, p)) for p in pts])
     curves = []
     for pair, todo in pieces.items():
-        starts = {}
+        ends = {}
         for k, line in enumerate(todo):
-            starts.setdefault(line[0], []).append(k)
+            for end in (line[0], line[-1]):
+                ends.setdefault(end, []).append(k)
         used = [False] * len(todo)
-        ends = {line[-1] for line in todo}
-        # begin where no piece ends (a curve's free end), then anywhere left (closed curves)
-        order = [k for k, line in enumerate(todo) if line[0] not in ends] + list(range(len(todo)))
+        # begin at a free end (a point only one piece reaches), then anywhere left (loops)
+        order = [k for k, line in enumerate(todo) if len(ends[line[0]]) == 1]
+        order += [k for k, line in enumerate(todo) if len(ends[line[-1]]) == 1]
+        order += list(range(len(todo)))
         for k in order:
             if used[k]:
                 continue
             used[k] = True
-            line = list(todo[k])
+            line = list(todo[k]) if len(ends[todo[k][0]]) == 1 else list(todo[k])[::-1]
+            if len(ends[line[0]]) != 1 and len(ends[line[-1]]) == 1:
+                line = line[::-1]
             while True:
-                nxt = next((j for j in starts.get(line[-1], ()) if not used[j]), None)
+                nxt = next((j for j in ends.get(line[-1], ()) if not used[j]), None)
                 if nxt is None:
                     break
                 used[nxt] = True
-                line += todo[nxt][1:]
+                piece = todo[nxt] if todo[nxt][0] == line[-1] else todo[nxt][::-1]
+                line += piece[1:]
             clean = [line[0]] + [q for p, q in zip(line[:-1], line[1:], strict=True) if q != p]
             if len(clean) >= 2:
                 curves.append(TracedCurve(pair, np.array(clean)))

@@ -95,6 +95,7 @@ class _Tracer:
         self.cols = {}  # ci -> sorted list of cj sampled
         self.edge_points = {}  # ((ci, cj), (ci, cj)) -> list of (point, key_left, key_right)
         self.recent = []  # points sampled since the quadtree's last pass
+        self.converged = False  # whether the last junction's Newton iteration converged
         self.evaluations = 0
 
     # -------------------------------------------------------------- points
@@ -428,6 +429,7 @@ class _Tracer:
                 if k not in keys:
                     keys.append(k)
         guess = np.mean([c[0] for c in crossings], axis=0)
+        self.converged = False
         if len(keys) != 3:
             return tuple(guess)
         a, b, c = keys
@@ -454,9 +456,13 @@ class _Tracer:
             except np.linalg.LinAlgError:
                 return tuple(guess)
             p = p + dp
-            if not (x0 - 1e-12 <= p[0] <= x1 + 1e-12 and y0 - 1e-12 <= p[1] <= y1 + 1e-12):
+            # the point may lie just beyond the cell (a triple point near a cell edge is seen
+            # by both cells): accept it within one cell's size, so both cells find the same one
+            wx, wy = x1 - x0, y1 - y0
+            if not (x0 - wx <= p[0] <= x1 + wx and y0 - wy <= p[1] <= y1 + wy):
                 return tuple(guess)
             if abs(dp[0]) < 0.1 * self.tol[0] and abs(dp[1]) < 0.1 * self.tol[1]:
+                self.converged = True
                 return (float(p[0]), float(p[1]))
         return tuple(guess)
 
@@ -605,6 +611,7 @@ class _Tracer:
                         edges[(a, b)] = None
             self.batch_crossings(list(edges))
         chords = []
+        junctions = []  # [point, keys, cell, converged, first segment, number of segments]
         for ci, cj, s in leaves:
             pts = self.ring(ci, cj, s)
             found = []
@@ -620,8 +627,49 @@ class _Tracer:
             x0, y0 = self.xy(ci, cj)
             x1, y1 = self.xy(ci + s, cj + s)
             j = self.junction(found, (x0, y0, x1, y1))
+            pairs = {}
+            for pt, k1, k2 in found:
+                pairs.setdefault(frozenset((k1, k2)), []).append((pt, k1, k2))
+            outside = not (x0 <= j[0] <= x1 and y0 <= j[1] <= y1)
+            if self.converged and outside and all(len(v) == 2 for v in pairs.values()):
+                # the triple point lies in a neighbouring cell: here each boundary only
+                # passes through, in at one crossing and out at the other
+                for (pt, k1, k2), (qt, _, _) in pairs.values():
+                    segments.append((k1, k2, np.array([pt, qt])))
+                keys = frozenset(k for _, k1, k2 in found for k in (k1, k2))
+                junctions.append([j, keys, (x0, y0, x1, y1), True, len(segments), 0])
+                continue
+            keys = frozenset(k for _, k1, k2 in found for k in (k1, k2))
+            junctions.append([j, keys, (x0, y0, x1, y1), self.converged, len(segments), len(found)])
             for pt, k1, k2 in found:
                 segments.append((k1, k2, np.array([pt, j])))
+        # a triple point near a cell edge is seen by two cells; where one cell's Newton failed
+        # (its point is the crossings' mean), it takes the point its neighbour found
+        for _point, keys, (x0, y0, x1, y1), ok, first, count in junctions:
+            if ok:
+                continue
+            wx, wy = x1 - x0, y1 - y0
+            near = [
+                other[0]
+                for other in junctions
+                if other[3]
+                and other[1] == keys
+                and x0 - wx <= other[0][0] <= x1 + wx
+                and y0 - wy <= other[0][1] <= y1 + wy
+            ]
+            if near:
+                for n in range(first, first + count):
+                    ka, kb, pts = segments[n]
+                    segments[n] = (ka, kb, np.array([pts[0], near[0]]))
+        if junctions:  # two cells sharing a triple point list the piece along their edge twice
+            seen, unique = set(), []
+            for ka, kb, pts in segments:
+                tag = (frozenset((ka, kb)), frozenset(map(tuple, np.asarray(pts)[[0, -1]])))
+                if len(pts) == 2 and tag in seen:
+                    continue
+                seen.add(tag)
+                unique.append((ka, kb, pts))
+            segments = unique
         if self.gradient_fn is not None and self.classify_many_fn is not None:
             inner = self.batch_refine(chords)
         else:
