@@ -444,14 +444,98 @@ def codata_uncertainty(f, plus_minus) -> tuple[float, str]:
     return u, note
 
 
-def _with_uncertainty(cols, rows, stated) -> tuple:
-    """Insert dgf_unc_kj_mol after dgf_kj_mol when a row of the table states one."""
+# NEA-TDB uranium volume (Grenthe et al. 1992, the tables of selected values at 25 C and
+# I = 0; typed from the printed tables, from memory): for rows the LLNL file takes from it
+# (reference code 92gre/fug), by entry name, the species the row was derived from (LLNL entry,
+# table name), the other reactants (auxiliary entry: moles consumed), the printed log K and
+# its +/- (95 % level, about twice the standard uncertainty; from memory), and the reaction.
+# The row's dG must equal dG(parent) + sum n dG(auxiliary) - RT ln10 log K (NEA92_MATCH), or
+# no uncertainty is attached. Polynuclear species ((UO2)2(OH)2^2+, (UO2)3(CO3)6^6-, ...) are
+# left out: their energies move with n times their parent's, which dgf_unc_parent cannot say.
+NEA92_AUXILIARY = {  # dG [kJ/mol] of the NEA-TDB auxiliary data (CODATA89 key values; from memory)
+    "H2O": -237.140,
+    "CO3^2-": -527.900,
+}
+NEA92_MATCH = 0.05  # [kJ/mol]: the constants are printed to 0.01 in log K (0.03 kJ/mol)
+_UO2 = ("UO2++", "UO2^2+")
+_U4 = ("U++++", "U^4+")
+NEA92_LOG_K = {
+    "UO2+": (*_UO2, {}, 1.484, 0.022, "UO2^2+ + e- = UO2^+"),
+    "U++++": (*_UO2, {"H2O": -2}, 9.038, 0.041, "UO2^2+ + 4 H+ + 2 e- = U^4+ + 2 H2O"),
+    "U+++": (*_U4, {}, -9.353, 0.07, "U^4+ + e- = U^3+"),
+    "UOH+++": (*_U4, {"H2O": 1}, -0.54, 0.06, "U^4+ + H2O = UOH^3+ + H+"),
+    "UO2OH+": (*_UO2, {"H2O": 1}, -5.2, 0.3, "UO2^2+ + H2O = UO2OH^+ + H+"),
+    "UO2(OH)3-": (*_UO2, {"H2O": 3}, -19.2, 0.4, "UO2^2+ + 3 H2O = UO2(OH)3^- + 3 H+"),
+    "UO2(OH)4--": (*_UO2, {"H2O": 4}, -33.0, 2.0, "UO2^2+ + 4 H2O = UO2(OH)4^2- + 4 H+"),
+    "UO2CO3(aq)": (*_UO2, {"CO3^2-": 1}, 9.68, 0.04, "UO2^2+ + CO3^2- = UO2CO3(aq)"),
+    "UO2(CO3)2--": (*_UO2, {"CO3^2-": 2}, 16.94, 0.12, "UO2^2+ + 2 CO3^2- = UO2(CO3)2^2-"),
+    "UO2(CO3)3----": (*_UO2, {"CO3^2-": 3}, 21.60, 0.05, "UO2^2+ + 3 CO3^2- = UO2(CO3)3^4-"),
+    "UO2CO3": (*_UO2, {"CO3^2-": 1}, 14.47, 0.04, "UO2^2+ + CO3^2- = UO2CO3(cr), -log Ks0"),
+}
+# rows whose printed dG and its +/- [kJ/mol] were determined on their own (calorimetric dH and S)
+NEA92_GIBBS = {
+    "UO3:2H2O": (-1636.506, 1.705),
+    "Schoepite": (-1636.506, 1.705),
+}
+
+
+def nea92_uncertainty(name: str, dgf: float, gibbs: dict) -> tuple[float, str | None, str]:
+    """Standard uncertainty, parent and note of a NEA-TDB 1992 uranium row, from its printed +/-.
+
+    A complex or ion derived from a parent by a constant: u = RT ln10 U(log K) / 2, and the
+    row names the parent (dgf_unc_parent); a row with its own printed dG: u = U(dG) / 2.
+    Raises ValueError when the row's dG is not the NEA value recalled here.
+    """
+    half = "the volume's +/- being a 95 % interval (about twice the standard uncertainty)"
+    if name in NEA92_GIBBS:
+        printed, plus_minus = NEA92_GIBBS[name]
+        if abs(dgf - printed) > NEA92_MATCH:
+            raise ValueError(f"dG {dgf} against the NEA-TDB {printed}")
+        u = plus_minus / 2
+        note = (
+            f"; u(dG) = {u:.2f} kJ/mol (dgf_unc_kj_mol), half of the NEA-TDB +/- {plus_minus:g} "
+            f"kJ/mol of dG {printed:.3f} (Grenthe et al. 1992, selected values; from memory), "
+            f"{half}; drawn on its own (its dH and S are calorimetric)"
+        )
+        return u, None, note
+    parent, parent_name, others, log_k, plus_minus, reaction = NEA92_LOG_K[name]
+    expected = gibbs[parent] - RT_LN10 * log_k
+    expected += sum(n * NEA92_AUXILIARY[a] for a, n in others.items())
+    if abs(dgf - expected) > NEA92_MATCH:
+        raise ValueError(f"dG {dgf} against {expected:.3f} from log K {log_k:g} ({reaction})")
+    u = RT_LN10 * plus_minus / 2
+    aux = "".join(f", dG({a}) {NEA92_AUXILIARY[a]:.3f}" for a in others)
+    aux += " (NEA-TDB auxiliary values; from memory)" if others else ""
+    note = (
+        f"; u(dG) = RT ln10 x {plus_minus:g} / 2 = {u:.2f} kJ/mol (dgf_unc_kj_mol) from the "
+        f"NEA-TDB log K = {log_k:g} +/- {plus_minus:g} ({reaction}; Grenthe et al. 1992, "
+        f"selected values; from memory), {half}; the row's dG follows from dG({parent_name}) "
+        f"{gibbs[parent]:.3f}{aux} and this constant within {NEA92_MATCH:g} kJ/mol "
+        f"(dgf_unc_parent {parent_name}: sampled energies move with that of {parent_name}, "
+        "plus this" + ("; the other reactants are not sampled with it)" if others else ")")
+    )
+    return u, parent_name, note
+
+
+def _with_uncertainty(cols, rows, stated, parents=None) -> tuple:
+    """Insert dgf_unc_kj_mol after dgf_kj_mol when a row of the table states one.
+
+    A table with a row that names a parent (``parents``) gets dgf_unc_parent after it.
+    """
     if not any((r[0], r[1], r[2]) in stated for r in rows):
         return cols, rows
     at = cols.index("dgf_kj_mol") + 1
+    parents = parents or {}
+    named = any((r[0], r[1], r[2]) in parents for r in rows)
     return (
-        cols[:at] + ["dgf_unc_kj_mol"] + cols[at:],
-        [r[:at] + [stated.get((r[0], r[1], r[2]), "")] + r[at:] for r in rows],
+        cols[:at] + ["dgf_unc_kj_mol"] + ["dgf_unc_parent"] * named + cols[at:],
+        [
+            r[:at]
+            + [stated.get((r[0], r[1], r[2]), "")]
+            + [parents.get((r[0], r[1], r[2]), "")] * named
+            + r[at:]
+            for r in rows
+        ],
     )
 
 
@@ -958,6 +1042,11 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
     hydrates: dict[tuple, str] = {}
     crc_ions = _read_crc_ions(crc_ions_file())
     stated: dict[tuple[str, str, str], str] = {}  # (formula, phase, form) -> dgf_unc_kj_mol
+    parents: dict[tuple[str, str, str], str] = {}  # (formula, phase, form) -> dgf_unc_parent
+    remarks: dict[tuple[str, str, str], str] = {}  # the uncertainty remark, last in the note
+    nea92_gibbs = {  # dG [kJ/mol] of the LLNL entries the NEA-TDB rows are derived from
+        name: to_kj(*entries_by_name[name].value("delG0f")) for name in ("UO2++", "U++++")
+    }
     entropies = element_entropies(_read_crc(crc_solids_file()))
 
     gibbs_now: list[dict] = [{}]  # dG of the tables, read once the element tables are built
@@ -1030,7 +1119,17 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
         if entry.source == "89cox/wag" and entry.name in CODATA_PLUS_MINUS:
             u, remark = codata_uncertainty(f, CODATA_PLUS_MINUS[entry.name])
             stated[(text, phase, form)] = f"{u:.2f}"
-            row[-1] += remark
+            remarks[(text, phase, form)] = remark
+        elif entry.source == "92gre/fug" and entry.name in NEA92_LOG_K.keys() | NEA92_GIBBS:
+            try:
+                u, parent, remark = nea92_uncertainty(entry.name, float(row[3]), nea92_gibbs)
+            except ValueError as exc:
+                report.append(f"no NEA-TDB uncertainty for {entry.name}: {exc}")
+            else:
+                stated[(text, phase, form)] = f"{u:.2f}"
+                remarks[(text, phase, form)] = remark
+                if parent:
+                    parents[(text, phase, form)] = parent
 
         tables[stem].append(row)
 
@@ -1233,7 +1332,9 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
                 float(row[5]) if row[5] else None,
                 entropies,
             )
-        cols, rows = _with_uncertainty(*_with_parameters(HEADER, rows, index, transitions), stated)
+            row[-1] += remarks.get((row[0], row[1], row[2]), "")
+        cols, rows = _with_parameters(HEADER, rows, index, transitions)
+        cols, rows = _with_uncertainty(cols, rows, stated, parents)
         out[f"{stem}.csv"] = _csv_text(cols, rows)
     out["transitions/phase_transitions.csv"] = _csv_text(TRANSITIONS_HEADER, transitions)
     src = io.StringIO()

@@ -1,0 +1,121 @@
+"""Uranium rows carry the uncertainty the NEA-TDB uranium volume prints for them.
+
+Source of every expected value below: Grenthe, Fuger, Konings, Lemire, Muller,
+Nguyen-Trung & Wanner, Chemical Thermodynamics of Uranium (NEA-TDB vol. 1,
+Elsevier 1992), the tables of selected values at 25 C and I = 0 (typed from
+memory). The volume's +/- is a 95 % interval, about twice the standard
+uncertainty (from memory), so u(dG) = RT ln10 U(log K) / 2 for a constant and
+U(dG) / 2 for a printed dG (law of propagation, JCGM 100:2008 eq. 10).
+"""
+
+import math
+
+import numpy as np
+import pytest
+
+from pourbaix.analyses.uncertainty import boundary_band, sample_maps
+from pourbaix.tables.species import load_species
+
+RT_LN10 = 8.314462618 * 298.15 * math.log(10) / 1000  # [kJ/mol]
+FARADAY = 96.485332  # [kJ/(mol V)] (CODATA 2018)
+DG_H2O = -237.140  # [kJ/mol] NEA-TDB auxiliary value (CODATA 1989 key value; from memory)
+DG_CO3 = -527.900  # [kJ/mol] NEA-TDB auxiliary value (CODATA 1989 key value; from memory)
+
+# species, phase, parent, moles of H2O and CO3^2- consumed, printed log K and its +/-
+# (Grenthe et al. 1992, selected values; from memory)
+NEA92_CONSTANTS = [
+    ("UO2^+", "aq", "UO2^2+", 0, 0, 1.484, 0.022),  # UO2^2+ + e- = UO2^+
+    ("U^4+", "aq", "UO2^2+", -2, 0, 9.038, 0.041),  # UO2^2+ + 4 H+ + 2 e- = U^4+ + 2 H2O
+    ("U^3+", "aq", "U^4+", 0, 0, -9.353, 0.07),  # U^4+ + e- = U^3+
+    ("UOH^3+", "aq", "U^4+", 1, 0, -0.54, 0.06),  # U^4+ + H2O = UOH^3+ + H+
+    ("UO2OH^+", "aq", "UO2^2+", 1, 0, -5.2, 0.3),  # log *beta1
+    ("UO2(OH)3^-", "aq", "UO2^2+", 3, 0, -19.2, 0.4),  # log *beta3
+    ("UO2(OH)4^2-", "aq", "UO2^2+", 4, 0, -33.0, 2.0),  # log *beta4
+    ("UO2CO3", "aq", "UO2^2+", 0, 1, 9.68, 0.04),  # log beta1
+    ("UO2(CO3)2^2-", "aq", "UO2^2+", 0, 2, 16.94, 0.12),  # log beta2
+    ("UO2(CO3)3^4-", "aq", "UO2^2+", 0, 3, 21.60, 0.05),  # log beta3
+    ("UO2CO3", "s", "UO2^2+", 0, 1, 14.47, 0.04),  # -log Ks0 of UO2CO3(cr)
+]
+
+
+@pytest.mark.parametrize(
+    "name, phase, parent, water, carbonate, log_k, plus_minus",
+    NEA92_CONSTANTS,
+    ids=[f"{r[0]}({r[1]})" for r in NEA92_CONSTANTS],
+)
+def test_constant_rows_carry_half_the_printed_interval(
+    name, phase, parent, water, carbonate, log_k, plus_minus
+):
+    table = load_species()
+    row = table.get(name, phase)
+    # only a row whose value is the NEA one may carry it: its dG follows from the constant
+    expected = (
+        table.get(parent, "aq").dgf_kj_mol + water * DG_H2O + carbonate * DG_CO3
+        - RT_LN10 * log_k
+    )  # fmt: skip
+    assert row.source == "92gre/fug"
+    assert row.dgf_kj_mol == pytest.approx(expected, abs=0.03)  # log K printed to 0.01
+    assert row.dgf_unc_kj_mol == pytest.approx(RT_LN10 * plus_minus / 2, abs=0.006)  # 2 decimals
+    assert row.dgf_unc_parent == parent
+
+
+def test_schoepite_rows_carry_half_the_printed_dg_interval():
+    # UO3.2H2O(cr): dG = -1636.506 +/- 1.705 kJ/mol (Grenthe et al. 1992; from memory)
+    for form in ("", "schoepite"):
+        row = load_species().get("UO3·2H2O" + (":" + form if form else ""), "s")
+        assert row.dgf_kj_mol == pytest.approx(-1636.506, abs=0.001)
+        assert row.dgf_unc_kj_mol == pytest.approx(1.705 / 2, abs=0.006)
+        assert row.dgf_unc_parent is None
+
+
+def test_chained_constants_give_the_printed_dg_intervals_of_the_ions():
+    # the volume derives UO2^+, U^4+ and U^3+ from UO2^2+ (CODATA 1989: dH +/- 1.5, S +/- 3.0;
+    # U(cr) S +/- 0.20, O2 +/- 0.005, H2 +/- 0.003; from memory) through the constants above,
+    # and prints dG +/- 1.752, 1.765 and 1.810 kJ/mol (from memory); the constants' intervals
+    # with the parent's (and 2 H2O at +/- 0.041 for U^4+) in quadrature give them back
+    t = 298.15e-3
+    uo2 = math.sqrt(1.5**2 + t**2 * (3.0**2 + 0.20**2 + 0.005**2 + 0.003**2))
+    u4 = math.hypot(uo2, RT_LN10 * 0.041, 2 * 0.041)
+    assert math.hypot(uo2, RT_LN10 * 0.022) == pytest.approx(1.752, abs=0.002)
+    assert u4 == pytest.approx(1.765, abs=0.002)
+    assert math.hypot(u4, RT_LN10 * 0.07) == pytest.approx(1.810, abs=0.002)
+    # and the rows give the same chain: own u of each link, parent named
+    table = load_species()
+    assert table.get("UO2^2+", "aq").dgf_unc_kj_mol == pytest.approx(uo2 / 2, abs=0.006)
+    assert table.get("U^3+", "aq").dgf_unc_parent == "U^4+"
+    assert table.get("U^4+", "aq").dgf_unc_parent == "UO2^2+"
+
+
+def test_rutherfordine_entry_whose_value_differs_carries_none():
+    # the LLNL 'Rutherfordine' entry holds -1562.93 kJ/mol, not the volume's -1563.046
+    row = load_species().get("UO2CO3:rutherfordine", "s")
+    assert row.dgf_kj_mol == pytest.approx(-1562.93, abs=0.001)
+    assert row.dgf_unc_kj_mol is None
+
+
+def test_the_uranium_maps_now_draw_the_stated_uncertainties():
+    # with no default, only rows with a stated uncertainty move: UO2 and UO2^2+ (CODATA 1989)
+    # and the nine U-O-H rows above; with carbonate the four carbonate rows as well
+    plain = sample_maps("U", samples=10, default_uncertainty_kj_mol=0.0, seed=1)
+    assert plain.stated == 11
+    assert boundary_band(plain, resolution=40)[2].any()
+    carbonate = sample_maps(
+        "U", samples=10, default_uncertainty_kj_mol=0.0, seed=1, ligands={"C": 1e-3}
+    )
+    assert carbonate.stated == 15
+
+
+def test_the_u4_u3_line_moves_by_its_constant_only():
+    # U^3+ moves with U^4+ plus its own draw, so the U^4+/U^3+ line (E = -dG_r / F) moves
+    # by u = RT ln10 x 0.07 / 2 alone: 95 % band 2 x 1.96 u / F = 8.1 mV (JCGM 100:2008
+    # eq. 10); drawn independently it would carry U^4+'s 0.88 kJ/mol too (36 mV)
+    r = sample_maps("U", samples=150, default_uncertainty_kj_mol=0.0, seed=3)
+    potential = np.linspace(-0.58, -0.53, 501)
+    share = np.zeros_like(potential)
+    for m in r.samples:
+        got = m.probe(np.full_like(potential, -1.0), potential).species
+        share += np.asarray(got, dtype=object) == "U^3+"
+    share /= len(r.samples)
+    width = potential[np.argmax(share < 0.025)] - potential[np.argmax(share < 0.975)]
+    expected = 2 * 1.96 * (RT_LN10 * 0.07 / 2) / FARADAY  # [V]
+    assert width == pytest.approx(expected, rel=0.35)  # 150 draws: band edges to ~20 %
