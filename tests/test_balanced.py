@@ -356,3 +356,21 @@ def test_curves_meet_at_their_triple_points(name, request):
         for p in (c.points[0], c.points[-1]):
             on_border = p[0] in (x0, x1) or p[1] in (y0, y1)
             assert on_border or ends[tuple(p)] >= 2, (c.between, p)
+
+
+def test_balanced_map_with_pitzer_coefficients():
+    # gypsum in 1 mol/kg NaCl (Pitzer inside the solver, checked against measured solubilities
+    # in test_activity_models): the map is traced, tiles its window and says what Pitzer covers
+    m = compute_balanced_map(
+        "Ca",
+        {"Ca": 0.05, "S": 0.05},
+        background="NaCl=1",
+        activity_model="pitzer",
+        exclude=["CaSO4(aq)"],
+        ph_range=(2.0, 12.0),
+        potential_range_v=(-0.5, 1.0),
+        mesh=(8, 8),
+    )
+    assert m.probe(7.0, 0.6).species == "CaSO4·2H2O:gypsum"
+    assert sum(d.area for d in m.domains) == pytest.approx(_window_area(m), rel=1e-6)
+    assert any(w.startswith("Pitzer (Harvie") for w in m.warnings)

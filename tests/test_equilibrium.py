@@ -384,3 +384,19 @@ def test_scalar_core_example():
     assert r.present[1]
     assert r.amounts[0] == pytest.approx(math.exp(-1.0), rel=1e-12)
     assert r.amounts[1] == pytest.approx(1.0 - math.exp(-1.0), rel=1e-12)
+
+
+def test_warm_start_from_far_away_with_pitzer_coefficients():
+    # Ca 0.05 and sulfate 0.05 mol/kg in 1 mol/kg NaCl, Pitzer: started from the equilibrium at
+    # pH 4, 0 V (gypsum; lambda far below), the solve at pH 11.98, 0.28 V put lambda on the old
+    # solid's constraint, where the dissolved amounts overflowed and the line search could not
+    # tell ascent (it diverged). Any start must give the cold start's amounts.
+    system = build_system("Ca", {"Ca": 0.05, "S": 0.05}, exclude=["CaSO4(aq)"])
+    kw = dict(activity_model="pitzer", background="NaCl=1")
+    cold = solve_at(system, 11.9771, 0.28125, **kw)
+    for ph, e in [(4.0, 0.0), (2.0, -0.5), (12.0, 1.0), (7.0, 0.25)]:
+        start = solve_at(system, ph, e, **kw)
+        warm = solve_at(system, 11.9771, 0.28125, start=start, **kw)
+        np.testing.assert_allclose(warm.amounts, cold.amounts, rtol=1e-8, atol=1e-30)
+        resid = np.abs(system.counts.T @ warm.amounts - system.totals) / system.totals
+        assert resid.max() <= 1e-10

@@ -289,12 +289,23 @@ def pitzer(molalities, temperature_c=25.0, parameters=None, other_charges=None):
     def c_term(c, a):
         return par("cphi", c, a) / (2.0 * math.sqrt(abs(z[c] * z[a])))
 
-    def psi(i, j, k):
-        return p["psi"].get((*sorted((i, j)), k), 0.0)
+    # psi(i, j, k) of the ions present, by their like-charged pair (i, j) sorted
+    psi_pair = {}
+    for (i, j, k), value in p["psi"].items():
+        if i in m and j in m and k in m:
+            psi_pair.setdefault((i, j), {})[k] = value
+
+    def psi_sum(i, j):  # sum_k m_k psi(i, j, k)
+        return sum(m[k] * v for k, v in psi_pair.get(tuple(sorted((i, j))), {}).items())
+
+    etheta = {}  # E-theta depends on the two charges only (at this I)
 
     def phi_terms(i, j):
         th = par("theta", i, j)
-        e, ep = _etheta(abs(z[i]), abs(z[j]), ionic, a_phi)
+        charges = (abs(z[i]), abs(z[j]))
+        if charges not in etheta:
+            etheta[charges] = _etheta(*charges, ionic, a_phi)
+        e, ep = etheta[charges]
         return th + e, ep, th + e + ionic * ep
 
     B = {(c, a): b_terms(c, a) for c in cations for a in anions}
@@ -325,19 +336,17 @@ def pitzer(molalities, temperature_c=25.0, parameters=None, other_charges=None):
             if s_ion == ion:
                 continue
             pair = (ion, s_ion) if (ion, s_ion) in PH else (s_ion, ion)
-            val += m[s_ion] * (2 * PH[pair][0] + sum(m[o] * psi(ion, s_ion, o) for o in other))
-        for i in range(len(other)):
-            for j in range(i + 1, len(other)):
-                val += m[other[i]] * m[other[j]] * psi(other[i], other[j], ion)
+            val += m[s_ion] * (2 * PH[pair][0] + psi_sum(ion, s_ion))
+        for (i, j), by_third in psi_pair.items():  # sum m_a m_a' psi(a, a', ion)
+            if ion in by_third:
+                val += m[i] * m[j] * by_third[ion]
         ln_gamma[ion] = val
     # eq. (A1): the osmotic coefficient
     total = sum(m.values())
     osm = -a_phi * ionic**1.5 / (1 + _B * s)
     osm += sum(m[c] * m[a] * (B[(c, a)][2] + big_z * C[(c, a)]) for c in cations for a in anions)
-    for i, j in pairs_c:
-        osm += m[i] * m[j] * (PH[(i, j)][2] + sum(m[a] * psi(i, j, a) for a in anions))
-    for i, j in pairs_a:
-        osm += m[i] * m[j] * (PH[(i, j)][2] + sum(m[c] * psi(i, j, c) for c in cations))
+    for i, j in pairs_c + pairs_a:
+        osm += m[i] * m[j] * (PH[(i, j)][2] + psi_sum(i, j))
     phi = 1.0 + 2.0 * osm / total if total > 0 else 1.0
     # ln a_w = -phi M_w sum m (Robinson & Stokes 1959, eq. 2.17)
     water = math.exp(-phi * _WATER_KG_PER_MOL * total)

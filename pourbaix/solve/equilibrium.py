@@ -254,6 +254,11 @@ def _solve_fixed_gamma(prep, mu_aq, mu_s, lam, active, max_iter):
     if over > 0:
         lam = lam - over
     lam, W = _warm_active_set(lam, active, A_s, mu_s, n_c)
+    # putting lambda on the previous solids' constraints may lift it where the dissolved
+    # amounts overflow (there the line search cannot tell ascent): start below instead
+    over = float(np.max((A_aq @ lam - mu_aq - prep.cap) / prep.aq_sums))
+    if over > 0:
+        lam, W = _feasible_start(lam - over, A_s, mu_s), []
     scale = prep.scale
     diag = np.arange(n_c)
     solve = np.linalg.solve
