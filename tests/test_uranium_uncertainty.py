@@ -18,41 +18,56 @@ from pourbaix.tables.species import load_species
 
 RT_LN10 = 8.314462618 * 298.15 * math.log(10) / 1000  # [kJ/mol]
 FARADAY = 96.485332  # [kJ/(mol V)] (CODATA 2018)
-DG_H2O = -237.140  # [kJ/mol] NEA-TDB auxiliary value (CODATA 1989 key value; from memory)
-DG_CO3 = -527.900  # [kJ/mol] NEA-TDB auxiliary value (CODATA 1989 key value; from memory)
+# NEA-TDB auxiliary values (CODATA 1989 key values; from memory) [kJ/mol]
+AUXILIARY = {"H2O": -237.140, "CO3": -527.900, "F": -281.523, "Cl": -131.217, "SO4": -744.004}
 
-# species, phase, parent, moles of H2O and CO3^2- consumed, printed log K and its +/-
+# species, phase, parent, moles of the other reactants consumed, printed log K and its +/-
 # (Grenthe et al. 1992, selected values; from memory)
 NEA92_CONSTANTS = [
-    ("UO2^+", "aq", "UO2^2+", 0, 0, 1.484, 0.022),  # UO2^2+ + e- = UO2^+
-    ("U^4+", "aq", "UO2^2+", -2, 0, 9.038, 0.041),  # UO2^2+ + 4 H+ + 2 e- = U^4+ + 2 H2O
-    ("U^3+", "aq", "U^4+", 0, 0, -9.353, 0.07),  # U^4+ + e- = U^3+
-    ("UOH^3+", "aq", "U^4+", 1, 0, -0.54, 0.06),  # U^4+ + H2O = UOH^3+ + H+
-    ("UO2OH^+", "aq", "UO2^2+", 1, 0, -5.2, 0.3),  # log *beta1
-    ("UO2(OH)3^-", "aq", "UO2^2+", 3, 0, -19.2, 0.4),  # log *beta3
-    ("UO2(OH)4^2-", "aq", "UO2^2+", 4, 0, -33.0, 2.0),  # log *beta4
-    ("UO2CO3", "aq", "UO2^2+", 0, 1, 9.68, 0.04),  # log beta1
-    ("UO2(CO3)2^2-", "aq", "UO2^2+", 0, 2, 16.94, 0.12),  # log beta2
-    ("UO2(CO3)3^4-", "aq", "UO2^2+", 0, 3, 21.60, 0.05),  # log beta3
-    ("UO2CO3", "s", "UO2^2+", 0, 1, 14.47, 0.04),  # -log Ks0 of UO2CO3(cr)
+    ("UO2^+", "aq", "UO2^2+", {}, 1.484, 0.022),  # UO2^2+ + e- = UO2^+
+    ("U^4+", "aq", "UO2^2+", {"H2O": -2}, 9.038, 0.041),  # UO2^2+ + 4 H+ + 2 e- = U^4+ + 2 H2O
+    ("U^3+", "aq", "U^4+", {}, -9.353, 0.07),  # U^4+ + e- = U^3+
+    ("UOH^3+", "aq", "U^4+", {"H2O": 1}, -0.54, 0.06),  # U^4+ + H2O = UOH^3+ + H+
+    ("UO2OH^+", "aq", "UO2^2+", {"H2O": 1}, -5.2, 0.3),  # log *beta1
+    ("UO2(OH)3^-", "aq", "UO2^2+", {"H2O": 3}, -19.2, 0.4),  # log *beta3
+    ("UO2(OH)4^2-", "aq", "UO2^2+", {"H2O": 4}, -33.0, 2.0),  # log *beta4
+    ("UO2CO3", "aq", "UO2^2+", {"CO3": 1}, 9.68, 0.04),  # log beta1
+    ("UO2(CO3)2^2-", "aq", "UO2^2+", {"CO3": 2}, 16.94, 0.12),  # log beta2
+    ("UO2(CO3)3^4-", "aq", "UO2^2+", {"CO3": 3}, 21.60, 0.05),  # log beta3
+    ("UO2CO3", "s", "UO2^2+", {"CO3": 1}, 14.47, 0.04),  # -log Ks0 of UO2CO3(cr)
+    ("UO2F^+", "aq", "UO2^2+", {"F": 1}, 5.09, 0.13),  # log beta1 .. beta4
+    ("UO2F2", "aq", "UO2^2+", {"F": 2}, 8.62, 0.04),
+    ("UO2F3^-", "aq", "UO2^2+", {"F": 3}, 10.9, 0.4),
+    ("UO2F4^2-", "aq", "UO2^2+", {"F": 4}, 11.7, 0.7),
+    ("UO2Cl^+", "aq", "UO2^2+", {"Cl": 1}, 0.17, 0.02),
+    ("UO2Cl2", "aq", "UO2^2+", {"Cl": 2}, -1.1, 0.4),
+    ("UO2SO4", "aq", "UO2^2+", {"SO4": 1}, 3.15, 0.02),
+    ("UO2(SO4)2^2-", "aq", "UO2^2+", {"SO4": 2}, 4.14, 0.07),
+    ("UF^3+", "aq", "U^4+", {"F": 1}, 9.28, 0.09),  # log beta1 .. beta6
+    ("UF2^2+", "aq", "U^4+", {"F": 2}, 16.23, 0.15),
+    ("UF3^+", "aq", "U^4+", {"F": 3}, 21.6, 1.0),
+    ("UF4", "aq", "U^4+", {"F": 4}, 25.6, 1.0),
+    ("UF5^-", "aq", "U^4+", {"F": 5}, 27.01, 0.30),
+    ("UF6^2-", "aq", "U^4+", {"F": 6}, 29.08, 0.18),
+    ("UCl^3+", "aq", "U^4+", {"Cl": 1}, 1.72, 0.13),
+    ("USO4^2+", "aq", "U^4+", {"SO4": 1}, 6.58, 0.19),
+    ("U(SO4)2", "aq", "U^4+", {"SO4": 2}, 10.51, 0.20),
 ]
 
 
 @pytest.mark.parametrize(
-    "name, phase, parent, water, carbonate, log_k, plus_minus",
+    "name, phase, parent, others, log_k, plus_minus",
     NEA92_CONSTANTS,
     ids=[f"{r[0]}({r[1]})" for r in NEA92_CONSTANTS],
 )
 def test_constant_rows_carry_half_the_printed_interval(
-    name, phase, parent, water, carbonate, log_k, plus_minus
+    name, phase, parent, others, log_k, plus_minus
 ):
     table = load_species()
     row = table.get(name, phase)
     # only a row whose value is the NEA one may carry it: its dG follows from the constant
-    expected = (
-        table.get(parent, "aq").dgf_kj_mol + water * DG_H2O + carbonate * DG_CO3
-        - RT_LN10 * log_k
-    )  # fmt: skip
+    expected = table.get(parent, "aq").dgf_kj_mol - RT_LN10 * log_k
+    expected += sum(n * AUXILIARY[other] for other, n in others.items())
     assert row.source == "92gre/fug"
     assert row.dgf_kj_mol == pytest.approx(expected, abs=0.03)  # log K printed to 0.01
     assert row.dgf_unc_kj_mol == pytest.approx(RT_LN10 * plus_minus / 2, abs=0.006)  # 2 decimals
@@ -97,12 +112,16 @@ def test_the_uranium_maps_now_draw_the_stated_uncertainties():
     # with no default, only rows with a stated uncertainty move: UO2 and UO2^2+ (CODATA 1989)
     # and the nine U-O-H rows above; with carbonate the four carbonate rows as well
     plain = sample_maps("U", samples=10, default_uncertainty_kj_mol=0.0, seed=1)
-    assert plain.stated == 11
+    assert plain.stated == 11  # fluoro, chloro and sulfato rows are not drawn here
     assert boundary_band(plain, resolution=40)[2].any()
     carbonate = sample_maps(
         "U", samples=10, default_uncertainty_kj_mol=0.0, seed=1, ligands={"C": 1e-3}
     )
     assert carbonate.stated == 15
+    fluoride = sample_maps(
+        "U", samples=10, default_uncertainty_kj_mol=0.0, seed=1, ligands={"F": 1e-3}
+    )
+    assert fluoride.stated == 21  # and the four uranyl and six U(IV) fluoro complexes
 
 
 def test_the_u4_u3_line_moves_by_its_constant_only():

@@ -455,6 +455,9 @@ def codata_uncertainty(f, plus_minus) -> tuple[float, str]:
 NEA92_AUXILIARY = {  # dG [kJ/mol] of the NEA-TDB auxiliary data (CODATA89 key values; from memory)
     "H2O": -237.140,
     "CO3^2-": -527.900,
+    "F-": -281.523,
+    "Cl-": -131.217,
+    "SO4^2-": -744.004,
 }
 NEA92_MATCH = 0.05  # [kJ/mol]: the constants are printed to 0.01 in log K (0.03 kJ/mol)
 _UO2 = ("UO2++", "UO2^2+")
@@ -471,6 +474,23 @@ NEA92_LOG_K = {
     "UO2(CO3)2--": (*_UO2, {"CO3^2-": 2}, 16.94, 0.12, "UO2^2+ + 2 CO3^2- = UO2(CO3)2^2-"),
     "UO2(CO3)3----": (*_UO2, {"CO3^2-": 3}, 21.60, 0.05, "UO2^2+ + 3 CO3^2- = UO2(CO3)3^4-"),
     "UO2CO3": (*_UO2, {"CO3^2-": 1}, 14.47, 0.04, "UO2^2+ + CO3^2- = UO2CO3(cr), -log Ks0"),
+    "UO2F+": (*_UO2, {"F-": 1}, 5.09, 0.13, "UO2^2+ + F- = UO2F^+"),
+    "UO2F2(aq)": (*_UO2, {"F-": 2}, 8.62, 0.04, "UO2^2+ + 2 F- = UO2F2(aq)"),
+    "UO2F3-": (*_UO2, {"F-": 3}, 10.9, 0.4, "UO2^2+ + 3 F- = UO2F3^-"),
+    "UO2F4--": (*_UO2, {"F-": 4}, 11.7, 0.7, "UO2^2+ + 4 F- = UO2F4^2-"),
+    "UO2Cl+": (*_UO2, {"Cl-": 1}, 0.17, 0.02, "UO2^2+ + Cl- = UO2Cl^+"),
+    "UO2Cl2(aq)": (*_UO2, {"Cl-": 2}, -1.1, 0.4, "UO2^2+ + 2 Cl- = UO2Cl2(aq)"),
+    "UO2SO4(aq)": (*_UO2, {"SO4^2-": 1}, 3.15, 0.02, "UO2^2+ + SO4^2- = UO2SO4(aq)"),
+    "UO2(SO4)2--": (*_UO2, {"SO4^2-": 2}, 4.14, 0.07, "UO2^2+ + 2 SO4^2- = UO2(SO4)2^2-"),
+    "UF+++": (*_U4, {"F-": 1}, 9.28, 0.09, "U^4+ + F- = UF^3+"),
+    "UF2++": (*_U4, {"F-": 2}, 16.23, 0.15, "U^4+ + 2 F- = UF2^2+"),
+    "UF3+": (*_U4, {"F-": 3}, 21.6, 1.0, "U^4+ + 3 F- = UF3^+"),
+    "UF4(aq)": (*_U4, {"F-": 4}, 25.6, 1.0, "U^4+ + 4 F- = UF4(aq)"),
+    "UF5-": (*_U4, {"F-": 5}, 27.01, 0.30, "U^4+ + 5 F- = UF5^-"),
+    "UF6--": (*_U4, {"F-": 6}, 29.08, 0.18, "U^4+ + 6 F- = UF6^2-"),
+    "UCl+++": (*_U4, {"Cl-": 1}, 1.72, 0.13, "U^4+ + Cl- = UCl^3+"),
+    "USO4++": (*_U4, {"SO4^2-": 1}, 6.58, 0.19, "U^4+ + SO4^2- = USO4^2+"),
+    "U(SO4)2(aq)": (*_U4, {"SO4^2-": 2}, 10.51, 0.20, "U^4+ + 2 SO4^2- = U(SO4)2(aq)"),
 }
 # rows whose printed dG and its +/- [kJ/mol] were determined on their own (calorimetric dH and S)
 NEA92_GIBBS = {
