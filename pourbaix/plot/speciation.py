@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from pourbaix.plot.style import CAPTION_COLOUR, INK, PALETTES, power_text
+from pourbaix.plot.style import CAPTION_COLOUR, INK, PALETTES, power_text, typeset_formulas
 
 __all__ = ["SPECIES_STYLES", "draw_speciation"]
 
@@ -157,7 +157,7 @@ def draw_speciation(result, axes=None, *, molality=False, caption=True):
     else:
         values = result.metal_fraction()
         ax.set_ylim(0, 1.08)
-        ax.set_ylabel(f"share of {metal}")
+        ax.set_ylabel(f"share of {typeset_formulas(metal)}")
         _curves(ax, x, values, s.labels, threshold=0.01)
         _shade_solids(ax, result, labels_at=1.065)
     ax.legend(loc="upper left", bbox_to_anchor=(1.01, 1.0), fontsize=8, frameon=False)
@@ -168,7 +168,11 @@ def draw_speciation(result, axes=None, *, molality=False, caption=True):
         else f"pH {result.fixed:g}"
     )
     ax.set_title(
-        f"{'–'.join(s.components)}–H₂O", loc="left", fontsize=12, fontweight="bold", color=INK
+        typeset_formulas(f"{'–'.join(s.components)}–H₂O"),
+        loc="left",
+        fontsize=12,
+        fontweight="bold",
+        color=INK,
     )
     ax.set_title(
         f"{result.temperature_c:g} °C  ·  {fixed}", loc="right", fontsize=9, color="#4a4a4a"
@@ -184,19 +188,26 @@ def draw_speciation(result, axes=None, *, molality=False, caption=True):
             x, 0, bound, color="#c65a00", alpha=0.25, lw=0, label=f"bound by {metal}", zorder=1
         )
         lx.set_ylim(0, 1.05)
-        lx.set_ylabel(f"share of {lig}")
+        lx.set_ylabel(f"share of {typeset_formulas(lig)}")
         from matplotlib.ticker import LogLocator, NullFormatter
 
         free = lx.twinx()
         free_m = result.free_ligand(lig)
-        free.plot(x, free_m, color="#6b6b6b", ls=(0, (4, 2)), lw=1.3, label=f"free {lig} (right)")
+        free.plot(
+            x,
+            free_m,
+            color="#6b6b6b",
+            ls=(0, (4, 2)),
+            lw=1.3,
+            label=f"free {typeset_formulas(lig)} (right)",
+        )
         free.set_yscale("log")
         free.set_ylim(
             min(max(free_m.min() / 3.0, s.totals[j] * 1e-8), s.totals[j] / 10.0), s.totals[j] * 2.0
         )
         free.yaxis.set_major_locator(LogLocator(base=10.0, numticks=6))
         free.yaxis.set_minor_formatter(NullFormatter())
-        free.set_ylabel(f"free {lig} / mol kg⁻¹", color="#4a4a4a")
+        free.set_ylabel(f"free {typeset_formulas(lig)} / mol kg⁻¹", color="#4a4a4a")
         h1, l1 = lx.get_legend_handles_labels()
         h2, l2 = free.get_legend_handles_labels()
         lx.legend(
@@ -210,7 +221,8 @@ def draw_speciation(result, axes=None, *, molality=False, caption=True):
     axes[-1].set_xlabel(xlabel)
     if caption:
         totals = ", ".join(
-            f"{c} {power_text(v)}" for c, v in zip(s.components, s.totals, strict=True)
+            f"{typeset_formulas(c)} {power_text(v)}"
+            for c, v in zip(s.components, s.totals, strict=True)
         )
         import textwrap
 

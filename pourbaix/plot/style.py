@@ -180,10 +180,10 @@ def power_text(x):
 
 
 def system_text(c):
-    """Element system as text, e.g. ``Cu–S–H₂O``."""
+    """Element system as text, e.g. ``Cu–S–H₂O`` or ``Cu–NH₃–H₂O``."""
     els = "–".join(c.elements)
     lig = "".join(f"–{k}" for k in (c.ligands or {}))
-    text = f"{els}{lig}–H₂O"
+    text = typeset_formulas(f"{els}{lig}–H₂O")
     if c.ratio is not None and len(c.elements) > 1:
         text += " (" + ":".join(f"{r:g}" for r in c.ratio) + ")"
     return text
@@ -193,7 +193,11 @@ def activity_text(c, dmap=None):
     """Dissolved amount of the map's elements as text (the totals of a mass-balanced map)."""
     totals = getattr(dmap, "totals", None)
     if totals:
-        return "totals: " + ", ".join(f"{k} {power_text(v)}" for k, v in totals.items()) + " mol/kg"
+        return (
+            "totals: "
+            + ", ".join(f"{typeset_formulas(k)} {power_text(v)}" for k, v in totals.items())
+            + " mol/kg"
+        )
     what = "dissolved " + ", ".join(c.elements)
     if c.molality is not None:
         return f"{what}: {power_text(c.molality)} mol/kg"
