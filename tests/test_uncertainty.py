@@ -263,3 +263,27 @@ def test_only_species_of_the_maps_system_are_drawn_and_counted():
     assert plain.stated == 2  # Mg2+ and MgO
     assert fluoride.stated == 3  # and MgF2
     assert fluoride.perturbed > plain.perturbed
+
+
+def test_the_band_caption_goes_under_the_map_where_it_hides_no_label(tmp_path, monkeypatch):
+    # the caption of the hatched band is a line under the figure, not a box inside the axes
+    # (a box at the lower right covered a domain label of the U-C map)
+    from pourbaix.plot import draw
+
+    saved = []
+    real_save = draw.save_figure
+
+    def keep(ax, path, **kwargs):
+        saved.append(ax)
+        return real_save(ax, path, **kwargs)
+
+    monkeypatch.setattr(draw, "save_figure", keep)
+    out = tmp_path / "zn.png"
+    code = main(["map", "Zn", "--uncertainty", "1", "--samples", "10", "--out", str(out)])
+    assert code == 0 and out.exists()
+    (ax,) = saved
+    texts = [t for t in ax.texts + ax.figure.texts if "95 % band" in t.get_text()]
+    (caption,) = texts  # one mention: the caption's line, no box of its own
+    assert caption.get_text().startswith("Zn–H₂O  ·  25 °C")
+    assert "\n//// 95 % band (10 draws" in caption.get_text()
+    assert caption.get_bbox_patch() is None

@@ -286,17 +286,24 @@ def cmd_map(a):
     if figure_outs:
         from pourbaix.plot import draw
 
+        notes = [widened[1]] if widened else []
+        bands = None
+        if a.uncertainty is not None:
+            from pourbaix.plot.uncertainty import band_caption
+
+            bands = _uncertain(a)
+            notes.append(band_caption(bands))  # under the map, where it hides no label
         ax = draw.draw_map(
             dmap,
             reading=a.reading,
             second_reference=a.second_axis,
             palette=a.palette,
-            notes=[widened[1]] if widened else (),
+            notes=notes,
         )
-        if a.uncertainty is not None:
+        if bands is not None:
             from pourbaix.plot.uncertainty import draw_bands
 
-            draw_bands(ax, _uncertain(a))
+            draw_bands(ax, bands, caption_in_axes=False)
         if a.solubility_lines is not None:
             from pourbaix.analyses.solubility import DEFAULT_LEVELS
             from pourbaix.plot.analysis_figures import add_solubility_lines
