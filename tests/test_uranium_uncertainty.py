@@ -74,6 +74,66 @@ def test_constant_rows_carry_half_the_printed_interval(
     assert row.dgf_unc_parent == parent
 
 
+# polynuclear complexes: species, units of UO2^2+, other reactants, printed log K and its +/-
+# (Grenthe et al. 1992, selected values; from memory)
+NEA92_POLYNUCLEAR = [
+    ("(UO2)2OH^3+", 2, {"H2O": 1}, -2.7, 1.0),  # 2 UO2^2+ + H2O = (UO2)2OH^3+ + H+
+    ("(UO2)2(OH)2^2+", 2, {"H2O": 2}, -5.62, 0.04),
+    ("(UO2)3(OH)4^2+", 3, {"H2O": 4}, -11.9, 0.3),
+    ("(UO2)3(OH)5^+", 3, {"H2O": 5}, -15.55, 0.12),
+    ("(UO2)3(OH)7^-", 3, {"H2O": 7}, -31.0, 2.0),
+    ("(UO2)4(OH)7^+", 4, {"H2O": 7}, -21.9, 1.0),
+    ("(UO2)3(CO3)6^6-", 3, {"CO3": 6}, 54.0, 1.0),  # 3 UO2^2+ + 6 CO3^2-
+]
+
+
+@pytest.mark.parametrize(
+    "name, units, others, log_k, plus_minus",
+    NEA92_POLYNUCLEAR,
+    ids=[r[0] for r in NEA92_POLYNUCLEAR],
+)
+def test_polynuclear_rows_move_with_their_units_of_the_parent(
+    name, units, others, log_k, plus_minus
+):
+    table = load_species()
+    row = table.get(name, "aq")
+    expected = units * table.get("UO2^2+", "aq").dgf_kj_mol - RT_LN10 * log_k
+    expected += sum(n * AUXILIARY[other] for other, n in others.items())
+    assert row.source == "92gre/fug"
+    assert row.dgf_kj_mol == pytest.approx(expected, abs=0.03)
+    assert row.dgf_unc_kj_mol == pytest.approx(RT_LN10 * plus_minus / 2, abs=0.006)
+    assert (row.dgf_unc_parent, row.dgf_unc_parent_units) == ("UO2^2+", units)
+
+
+def test_a_dimer_draws_twice_its_parents_draw_plus_its_own():
+    # d[(UO2)2(OH)2^2+] = u_own z1 + 2 d[UO2^2+]: the residual after taking off twice the
+    # parent's draw has the row's own standard uncertainty, RT ln10 x 0.04 / 2 = 0.114 kJ/mol
+    from pourbaix.analyses.uncertainty import _perturbed_tables
+
+    table = load_species()
+    dimer, parent = table.get("(UO2)2(OH)2^2+", "aq"), table.get("UO2^2+", "aq")
+    tables, _, _ = _perturbed_tables(table, ("U",), 400, 0.0, 7)
+    d_dimer = np.array([t.get(dimer.name, "aq").dgf_kj_mol for t in tables]) - dimer.dgf_kj_mol
+    d_parent = np.array([t.get(parent.name, "aq").dgf_kj_mol for t in tables]) - parent.dgf_kj_mol
+    assert np.std(d_dimer - 2 * d_parent) == pytest.approx(RT_LN10 * 0.04 / 2, rel=0.15)
+    assert np.std(d_parent) == pytest.approx(parent.dgf_unc_kj_mol, rel=0.15)
+
+
+def test_the_loader_refuses_units_without_a_parent_and_units_not_above_zero(tmp_path):
+    from pourbaix.errors import DataFileError
+    from pourbaix.tables.species import read_species_file
+
+    head = "formula,phase,dgf_kj_mol,dgf_unc_kj_mol,dgf_unc_parent,dgf_unc_parent_units,source\n"
+    for row, words in (
+        ("UO2^2+,aq,-952.5,0.9,,2,X\n", "needs dgf_unc_parent"),
+        ("(UO2)2(OH)2^2+,aq,-2347.3,0.1,UO2^2+,0,X\n", "must be > 0"),
+    ):
+        path = tmp_path / "mine.csv"
+        path.write_text(head + row, encoding="utf-8")
+        with pytest.raises(DataFileError, match=words):
+            read_species_file(path)
+
+
 def test_schoepite_rows_carry_half_the_printed_dg_interval():
     # UO3.2H2O(cr): dG = -1636.506 +/- 1.705 kJ/mol (Grenthe et al. 1992; from memory)
     for form in ("", "schoepite"):
@@ -109,19 +169,20 @@ def test_rutherfordine_entry_whose_value_differs_carries_none():
 
 
 def test_the_uranium_maps_now_draw_the_stated_uncertainties():
-    # with no default, only rows with a stated uncertainty move: UO2 and UO2^2+ (CODATA 1989)
-    # and the nine U-O-H rows above; with carbonate the four carbonate rows as well
+    # with no default, only rows with a stated uncertainty move: UO2 and UO2^2+ (CODATA 1989),
+    # the nine U-O-H rows above and the six polynuclear hydroxo complexes; with carbonate the
+    # four carbonate rows and (UO2)3(CO3)6^6- as well
     plain = sample_maps("U", samples=10, default_uncertainty_kj_mol=0.0, seed=1)
-    assert plain.stated == 11  # fluoro, chloro and sulfato rows are not drawn here
+    assert plain.stated == 17  # fluoro, chloro and sulfato rows are not drawn here
     assert boundary_band(plain, resolution=40)[2].any()
     carbonate = sample_maps(
         "U", samples=10, default_uncertainty_kj_mol=0.0, seed=1, ligands={"C": 1e-3}
     )
-    assert carbonate.stated == 15
+    assert carbonate.stated == 22
     fluoride = sample_maps(
         "U", samples=10, default_uncertainty_kj_mol=0.0, seed=1, ligands={"F": 1e-3}
     )
-    assert fluoride.stated == 21  # and the four uranyl and six U(IV) fluoro complexes
+    assert fluoride.stated == 27  # and the four uranyl and six U(IV) fluoro complexes
 
 
 def test_the_u4_u3_line_moves_by_its_constant_only():

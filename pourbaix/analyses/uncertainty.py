@@ -9,8 +9,9 @@ log K interval) or, for a row that states none, a default the user chooses
 with stated uncertainties); the map is solved once per sample (Monte Carlo
 propagation of distributions, JCGM 101:2008). A row derived from another species
 by a constant (``dgf_unc_parent``, e.g. a hydroxo complex or oxide from its
-review's log K and the table's Zn2+) moves with that species' draw plus its own,
-so the line between the two moves only by the constant's uncertainty. The
+review's log K and the table's Zn2+) moves with that species' draw, times the
+units of it the species holds (``dgf_unc_parent_units``: 2 for (UO2)2(OH)2^2+),
+plus its own, so the line between the two moves only by the constant's uncertainty. The
 probability of a species at a point is the share of samples in which it is the
 stable one; a boundary's 95 % band is where no species reaches 97.5 % (the central
 95 % of the sampled boundary positions covers the point). Other draws are
@@ -83,10 +84,11 @@ def _perturbed_tables(table, elements, count, default, seed, ligand_elements=fro
     )
     stated = sum(table.species[i].dgf_unc_kj_mol is not None for i in chosen)
     parents = _parent_positions(table, chosen)
+    units = [table.species[i].dgf_unc_parent_units for i in chosen]
     tables = []
     for _ in range(count):
         own = rng.normal(0.0, 1.0, len(chosen)) * sigma
-        draw = [_with_parents(k, own, parents) for k in range(len(chosen))]
+        draw = [_with_parents(k, own, parents, units) for k in range(len(chosen))]
         species = list(table.species)
         for i, delta in zip(chosen, draw, strict=True):
             species[i] = dataclasses.replace(species[i], dgf_kj_mol=species[i].dgf_kj_mol + delta)
@@ -105,12 +107,16 @@ def _parent_positions(table, chosen):
     return out
 
 
-def _with_parents(k, own, parents):
-    """Own draw plus the draws of the chain of parents (the loader refuses a self-reference)."""
-    total, seen = 0.0, set()
+def _with_parents(k, own, parents, units):
+    """Own draw plus the parent's draw times the units held, down the chain of parents.
+
+    draw(k) = own(k) + units(k) draw(parent(k)) (the loader refuses a self-reference).
+    """
+    total, factor, seen = 0.0, 1.0, set()
     while k is not None and k not in seen:
         seen.add(k)
-        total += own[k]
+        total += factor * own[k]
+        factor *= units[k]
         k = parents[k]
     return total
 

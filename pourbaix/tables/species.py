@@ -65,6 +65,7 @@ COLUMNS: dict[str, tuple[str, bool]] = {
     "dgf_kj_mol": ("kJ/mol", True),
     "dgf_unc_kj_mol": ("kJ/mol", False),
     "dgf_unc_parent": ("species name", False),
+    "dgf_unc_parent_units": ("count", False),
     "dhf_kj_mol": ("kJ/mol", False),
     "s_j_molk": ("J/(mol K)", False),
     "cp_j_molk": ("J/(mol K)", False),
@@ -101,6 +102,7 @@ HKF_COLUMNS: tuple[str, ...] = (
 _NUMERIC = (
     "dgf_kj_mol",
     "dgf_unc_kj_mol",
+    "dgf_unc_parent_units",
     "dhf_kj_mol",
     "s_j_molk",
     "cp_j_molk",
@@ -121,6 +123,7 @@ MAX_ATOMS = 500
 MAGNITUDE = {
     "dgf_kj_mol": 1e5,
     "dgf_unc_kj_mol": 1e3,
+    "dgf_unc_parent_units": 100.0,
     "dhf_kj_mol": 1e5,
     "s_j_molk": 1e4,
     "cp_j_molk": 1e4,
@@ -229,6 +232,9 @@ class Species:
         (a hydrolysis or solubility constant converted with that species' ΔfG°):
         ``dgf_unc_kj_mol`` is then the uncertainty relative to it, and a sampled
         energy moves with that species' draw plus its own.
+    dgf_unc_parent_units : float
+        How many units of ``dgf_unc_parent`` the species holds (2 for (UO2)2(OH)2²⁺
+        from UO2²⁺): its sampled energy moves with that many times the parent's draw.
     s_j_molk : float or None
         Standard entropy [J/(mol K)].
     cp_j_molk : float or None
@@ -277,6 +283,7 @@ class Species:
     origin: str = ""
     dgf_unc_kj_mol: float | None = None
     dgf_unc_parent: str | None = None
+    dgf_unc_parent_units: float = 1.0
 
     @property
     def composition(self) -> Mapping[str, int]:
@@ -860,6 +867,11 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems) ->
             f"dgf_unc_parent {cell('dgf_unc_parent')!r} needs dgf_unc_kj_mol (the uncertainty "
             "relative to that species)",
         )
+    units = values.get("dgf_unc_parent_units")
+    if units is not None and not cell("dgf_unc_parent"):
+        add("dgf_unc_parent_units", "dgf_unc_parent_units needs dgf_unc_parent (units of what)")
+    elif units is not None and units <= 0:
+        add("dgf_unc_parent_units", f"dgf_unc_parent_units {units} must be > 0")
     if values.get("dgf_unc_kj_mol") is not None and values["dgf_unc_kj_mol"] < 0:
         add(
             "dgf_unc_kj_mol",
@@ -925,6 +937,11 @@ def _read_row(fields, header, cols, display, lineno, known_sources, problems) ->
         dgf_kj_mol=values["dgf_kj_mol"],
         dgf_unc_kj_mol=values["dgf_unc_kj_mol"],
         dgf_unc_parent=cell("dgf_unc_parent") or None,
+        dgf_unc_parent_units=(
+            1.0
+            if values.get("dgf_unc_parent_units") is None
+            else values["dgf_unc_parent_units"]
+        ),
         dhf_kj_mol=values["dhf_kj_mol"],
         s_j_molk=values["s_j_molk"],
         cp_j_molk=values["cp_j_molk"],

@@ -450,8 +450,8 @@ def codata_uncertainty(f, plus_minus) -> tuple[float, str]:
 # table name), the other reactants (auxiliary entry: moles consumed), the printed log K and
 # its +/- (95 % level, about twice the standard uncertainty; from memory), and the reaction.
 # The row's dG must equal dG(parent) + sum n dG(auxiliary) - RT ln10 log K (NEA92_MATCH), or
-# no uncertainty is attached. Polynuclear species ((UO2)2(OH)2^2+, (UO2)3(CO3)6^6-, ...) are
-# left out: their energies move with n times their parent's, which dgf_unc_parent cannot say.
+# no uncertainty is attached. Polynuclear species ((UO2)2(OH)2^2+, (UO2)3(CO3)6^6-, ...) move
+# with n times their parent's draw (NEA92_UNITS; dgf_unc_parent_units).
 NEA92_AUXILIARY = {  # dG [kJ/mol] of the NEA-TDB auxiliary data (CODATA89 key values; from memory)
     "H2O": -237.140,
     "CO3^2-": -527.900,
@@ -493,6 +493,32 @@ NEA92_LOG_K = {
     "U(SO4)2(aq)": (*_U4, {"SO4^2-": 2}, 10.51, 0.20, "U^4+ + 2 SO4^2- = U(SO4)2(aq)"),
 }
 # rows whose printed dG and its +/- [kJ/mol] were determined on their own (calorimetric dH and S)
+# Polynuclear complexes: n UO2^2+ + ... (same layout as NEA92_LOG_K); their units of the parent.
+NEA92_LOG_K_POLY = {
+    "(UO2)2OH+++": (*_UO2, {"H2O": 1}, -2.7, 1.0, "2 UO2^2+ + H2O = (UO2)2OH^3+ + H+"),
+    "(UO2)2(OH)2++": (*_UO2, {"H2O": 2}, -5.62, 0.04, "2 UO2^2+ + 2 H2O = (UO2)2(OH)2^2+ + 2 H+"),
+    "(UO2)3(OH)4++": (*_UO2, {"H2O": 4}, -11.9, 0.3, "3 UO2^2+ + 4 H2O = (UO2)3(OH)4^2+ + 4 H+"),
+    "(UO2)3(OH)5+": (*_UO2, {"H2O": 5}, -15.55, 0.12, "3 UO2^2+ + 5 H2O = (UO2)3(OH)5^+ + 5 H+"),
+    "(UO2)3(OH)7-": (*_UO2, {"H2O": 7}, -31.0, 2.0, "3 UO2^2+ + 7 H2O = (UO2)3(OH)7^- + 7 H+"),
+    "(UO2)4(OH)7+": (*_UO2, {"H2O": 7}, -21.9, 1.0, "4 UO2^2+ + 7 H2O = (UO2)4(OH)7^+ + 7 H+"),
+    "(UO2)3(CO3)6(6-)": (
+        *_UO2,
+        {"CO3^2-": 6},
+        54.0,
+        1.0,
+        "3 UO2^2+ + 6 CO3^2- = (UO2)3(CO3)6^6-",
+    ),
+}
+NEA92_UNITS = {
+    "(UO2)2OH+++": 2,
+    "(UO2)2(OH)2++": 2,
+    "(UO2)3(OH)4++": 3,
+    "(UO2)3(OH)5+": 3,
+    "(UO2)3(OH)7-": 3,
+    "(UO2)4(OH)7+": 4,
+    "(UO2)3(CO3)6(6-)": 3,
+}
+NEA92_LOG_K.update(NEA92_LOG_K_POLY)
 NEA92_GIBBS = {
     "UO3:2H2O": (-1636.506, 1.705),
     "Schoepite": (-1636.506, 1.705),
@@ -519,7 +545,8 @@ def nea92_uncertainty(name: str, dgf: float, gibbs: dict) -> tuple[float, str | 
         )
         return u, None, note
     parent, parent_name, others, log_k, plus_minus, reaction = NEA92_LOG_K[name]
-    expected = gibbs[parent] - RT_LN10 * log_k
+    units = NEA92_UNITS.get(name, 1)
+    expected = units * gibbs[parent] - RT_LN10 * log_k
     expected += sum(n * NEA92_AUXILIARY[a] for a, n in others.items())
     if abs(dgf - expected) > NEA92_MATCH:
         raise ValueError(f"dG {dgf} against {expected:.3f} from log K {log_k:g} ({reaction})")
@@ -531,28 +558,39 @@ def nea92_uncertainty(name: str, dgf: float, gibbs: dict) -> tuple[float, str | 
         f"NEA-TDB log K = {log_k:g} +/- {plus_minus:g} ({reaction}; Grenthe et al. 1992, "
         f"selected values; from memory), {half}; the row's dG follows from dG({parent_name}) "
         f"{gibbs[parent]:.3f}{aux} and this constant within {NEA92_MATCH:g} kJ/mol "
-        f"(dgf_unc_parent {parent_name}: sampled energies move with that of {parent_name}, "
-        "plus this" + ("; the other reactants are not sampled with it)" if others else ")")
+        f"(dgf_unc_parent {parent_name}: sampled energies move with "
+        + (f"{units} times " if units != 1 else "")
+        + f"that of {parent_name}, plus this"
+        + ("; the other reactants are not sampled with it)" if others else ")")
     )
     return u, parent_name, note
 
 
-def _with_uncertainty(cols, rows, stated, parents=None) -> tuple:
+def _with_uncertainty(cols, rows, stated, parents=None, units=None) -> tuple:
     """Insert dgf_unc_kj_mol after dgf_kj_mol when a row of the table states one.
 
-    A table with a row that names a parent (``parents``) gets dgf_unc_parent after it.
+    A table with a row that names a parent (``parents``) gets dgf_unc_parent after it, and
+    one with a row holding more than one unit of its parent (``units``) gets
+    dgf_unc_parent_units after that.
     """
     if not any((r[0], r[1], r[2]) in stated for r in rows):
         return cols, rows
     at = cols.index("dgf_kj_mol") + 1
     parents = parents or {}
+    units = units or {}
     named = any((r[0], r[1], r[2]) in parents for r in rows)
+    counted = any((r[0], r[1], r[2]) in units for r in rows)
     return (
-        cols[:at] + ["dgf_unc_kj_mol"] + ["dgf_unc_parent"] * named + cols[at:],
+        cols[:at]
+        + ["dgf_unc_kj_mol"]
+        + ["dgf_unc_parent"] * named
+        + ["dgf_unc_parent_units"] * counted
+        + cols[at:],
         [
             r[:at]
             + [stated.get((r[0], r[1], r[2]), "")]
             + [parents.get((r[0], r[1], r[2]), "")] * named
+            + [units.get((r[0], r[1], r[2]), "")] * counted
             + r[at:]
             for r in rows
         ],
@@ -1063,6 +1101,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
     crc_ions = _read_crc_ions(crc_ions_file())
     stated: dict[tuple[str, str, str], str] = {}  # (formula, phase, form) -> dgf_unc_kj_mol
     parents: dict[tuple[str, str, str], str] = {}  # (formula, phase, form) -> dgf_unc_parent
+    parent_units: dict[tuple[str, str, str], str] = {}  # -> dgf_unc_parent_units (when not 1)
     remarks: dict[tuple[str, str, str], str] = {}  # the uncertainty remark, last in the note
     nea92_gibbs = {  # dG [kJ/mol] of the LLNL entries the NEA-TDB rows are derived from
         name: to_kj(*entries_by_name[name].value("delG0f")) for name in ("UO2++", "U++++")
@@ -1150,6 +1189,8 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
                 remarks[(text, phase, form)] = remark
                 if parent:
                     parents[(text, phase, form)] = parent
+                if entry.name in NEA92_UNITS:
+                    parent_units[(text, phase, form)] = str(NEA92_UNITS[entry.name])
 
         tables[stem].append(row)
 
@@ -1354,7 +1395,7 @@ def build(species_dir: Path) -> tuple[dict[str, str], str]:
             )
             row[-1] += remarks.get((row[0], row[1], row[2]), "")
         cols, rows = _with_parameters(HEADER, rows, index, transitions)
-        cols, rows = _with_uncertainty(cols, rows, stated, parents)
+        cols, rows = _with_uncertainty(cols, rows, stated, parents, parent_units)
         out[f"{stem}.csv"] = _csv_text(cols, rows)
     out["transitions/phase_transitions.csv"] = _csv_text(TRANSITIONS_HEADER, transitions)
     src = io.StringIO()
