@@ -158,7 +158,7 @@ def _announce_now(path, *, to_stderr=False):
     print(f"wrote {path}", file=sys.stderr if to_stderr else sys.stdout)
 
 
-def announce_written(path, *, to_stderr=False):
+def announce_written(path, *, to_stderr=False, detail=""):
     """Say ``wrote PATH`` once the file is really in place.
 
     Inside :func:`all_or_nothing` the line is held back until every file of
@@ -171,12 +171,14 @@ def announce_written(path, *, to_stderr=False):
         The file written.
     to_stderr : bool
         Print on standard error (e.g. when standard output carries JSON).
+    detail : str
+        Said after the path (e.g. ``": 90 maps"``).
     """
     pending = _ANNOUNCED.get()
     if pending is None:
-        _announce_now(path, to_stderr=to_stderr)
+        _announce_now(f"{path}{detail}", to_stderr=to_stderr)
     else:
-        pending.append((path, to_stderr))
+        pending.append((f"{path}{detail}", to_stderr))
 
 
 def _commit(staged):

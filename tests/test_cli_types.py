@@ -43,5 +43,22 @@ def test_a_bad_ratio_is_refused(capsys, value):
 
 
 def test_a_ratio_may_use_commas(tmp_path, capsys):
-    code, out, _ = run(capsys, "map", "Fe", "Cr", "--ratio", "70,30", "--out", str(tmp_path / "a.json"))
+    code, out, _ = run(
+        capsys, "map", "Fe", "Cr", "--ratio", "70,30", "--out", str(tmp_path / "a.json")
+    )
     assert code == 0 and "wrote" in out
+
+
+@pytest.mark.parametrize(
+    "value, words",
+    [
+        ("Cu1e-3", "expected NAME=VALUE such as Cu=1e-3"),
+        ("N=-1", "'N': total [mol/kg] must be > 0"),
+    ],
+)
+def test_a_bad_total_names_the_option_and_the_fault(capsys, value, words):
+    with pytest.raises(SystemExit) as exc:
+        main(["speciation", "Cu", "--total", value, "--potential", "0.2"])
+    err = capsys.readouterr().err
+    assert exc.value.code == 2 and "--total" in err and words in err
+    assert "Traceback" not in err

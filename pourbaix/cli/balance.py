@@ -3,11 +3,13 @@
 from __future__ import annotations
 
 import argparse
-import math
 import sys
 from pathlib import Path
 
+from pourbaix.cli.files import save_figures
+from pourbaix.cli.types import named_positive
 from pourbaix.errors import OptionError
+from pourbaix.outputs import announce_written
 
 __all__ = ["CAUTION", "add_balance_options", "compute_balanced_from_args", "register"]
 
@@ -19,21 +21,7 @@ CAUTION = (
 )
 
 
-def _total(text):
-    name, sep, value = text.partition("=")
-    if not sep:
-        raise argparse.ArgumentTypeError(
-            f"expected NAME=MOL_PER_KG such as Cu=1e-3 or N=1, got {text!r}"
-        )
-    try:
-        v = float(value)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"total {name!r}: {value!r} is not a number") from None
-    if not (math.isfinite(v) and v > 0):
-        raise argparse.ArgumentTypeError(
-            f"total {name!r}: must be a number > 0 mol/kg, got {value!r}"
-        )
-    return name.strip(), v
+_total = named_positive("Cu=1e-3 or N=1", "total [mol/kg]")
 
 
 def add_balance_options(parser):
@@ -157,13 +145,11 @@ def cmd_speciation(a):
         from pourbaix.plot.speciation import draw_speciation
 
         axes = draw_speciation(result, molality=a.molality_axis)
-    if figures:
-        from pourbaix.plot.draw import save_figure
-
-        for o in figures:
-            save_figure(axes[0].figure, o)
     for o in outs:
-        print(f"wrote {o}")
+        if o not in figures:
+            announce_written(o)
+    if figures:
+        save_figures(axes[0].figure, figures)
     if a.report:
         from pourbaix.maps.balanced import compute_balanced_map
         from pourbaix.report.document import write_report
@@ -199,7 +185,7 @@ def cmd_speciation(a):
             extra_sections=[*result.report_sections(), ("Caution", CAUTION)],
             figure=axes[0].figure,
         )
-        print(f"wrote {a.report}")
+        announce_written(a.report)
     print(result.summary())
     return 0
 

@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import sys
 
+from pourbaix.outputs import announce_written
+
 __all__ = ["register", "cmd_sweep"]
 
 _HELP = (
@@ -204,7 +206,7 @@ def cmd_sweep(a):
         if reused
         else ""
     )
-    print(f"wrote {a.out}: {size} maps ({shape}){note}")
+    announce_written(a.out, detail=f": {size} maps ({shape}){note}")
     print(
         "A sweep holds thermodynamic predictions at equilibrium; see the caution in the file.",
         file=sys.stderr,
