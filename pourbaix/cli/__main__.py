@@ -1,7 +1,5 @@
 """Run the command line as ``python -m pourbaix.cli``."""
 
-import sys
+from pourbaix.cli.process import run
 
-from pourbaix.cli.commands import main
-
-sys.exit(main())
+run()

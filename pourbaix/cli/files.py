@@ -244,12 +244,12 @@ def write_report_from_args(args, dmap, extra=None, figure=None, to_stderr=False)
     ExportError
         If the report cannot be written.
     """
-    from pourbaix.outputs import announce_written
-    from pourbaix.report.document import write_report
-
     path = getattr(args, "report", None)
     if not path:
         return None
+    from pourbaix.outputs import announce_written
+    from pourbaix.report.document import write_report
+
     if extra is None:
         analyses = []
     elif isinstance(extra, list | tuple):

@@ -190,8 +190,9 @@ def draw_map(
         offset += text.get_window_extent(renderer).height * 72.0 / fig.dpi
     if own:  # make room for what was measured below the axes
         fit_bottom(fig, offset + 8, right=right)
-    _fit_titles_and_label(ax, get_renderer(fig), grow=own)
-    renderer = get_renderer(fig)
+    renderer = get_renderer(fig, reuse=renderer)
+    _fit_titles_and_label(ax, renderer, grow=own)
+    renderer = get_renderer(fig, reuse=renderer)
     if labels:
         soft = []
         if water:
@@ -476,7 +477,7 @@ def draw_overlay(maps, ax=None, *, labels=None, caption=True):
     offset += legend_height_pt(leg, renderer) + 5
     if cap:
         add_caption(ax, cap, offset)
-    renderer = get_renderer(fig)
+    renderer = get_renderer(fig, reuse=renderer)
     soft = []
     for m in maps:
         segs = water_segments(m) + ([] if m is first else [[b.start, b.end] for b in m.boundaries])

@@ -142,10 +142,19 @@ def fit_bottom(fig, bottom_pt, right=None):
     fig.subplots_adjust(left=0.105, top=1 - top_pt / 72.0 / h, bottom=bottom_pt / 72.0 / h, **kw)
 
 
-def get_renderer(fig, layout=True):
-    """The figure's renderer, after the layout engine (if any) placed the axes."""
+def get_renderer(fig, layout=True, reuse=None):
+    """The figure's renderer, after the layout engine (if any) placed the axes.
+
+    ``reuse`` is a renderer taken earlier in the same drawing: it is returned
+    again while the figure keeps its dpi. Text sizes depend on the dpi only,
+    not on the figure's size, and matplotlib keeps its cache of measured texts
+    per renderer, so a figure that grows while it is laid out (room for the
+    caption, the key) has its texts measured once rather than once per size.
+    """
     if layout and fig.get_layout_engine() is not None:
         fig.draw_without_rendering()  # let the layout engine place the axes first
+    if reuse is not None and getattr(reuse, "dpi", None) == fig.dpi:
+        return reuse
     get = getattr(fig.canvas, "get_renderer", None)
     return get() if get is not None else fig._get_renderer()
 
