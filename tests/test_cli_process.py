@@ -48,12 +48,16 @@ def _program(args, tmp_path):
 
 
 def test_the_program_draws_the_same_figure_as_main_in_process(tmp_path, capsys):
-    # the lean start (matplotlib without its setter docstrings) changes no pixel and no byte
+    # the lean start (matplotlib without its setter docstrings) changes no pixel and no byte;
+    # the program's one visible choice is unhinted text
+    import matplotlib
+
     res = _program(["map", "Cu", "--reading", "--second-axis", "SCE", "--out", "lean.png"], tmp_path)
     assert res.returncode == 0, res.stderr
-    code, out, _ = run(
-        capsys, "map", "Cu", "--reading", "--second-axis", "SCE", "--out", tmp_path / "plain.png"
-    )
+    with matplotlib.rc_context({"text.hinting": "none"}):
+        code, out, _ = run(
+            capsys, "map", "Cu", "--reading", "--second-axis", "SCE", "--out", tmp_path / "plain.png"
+        )
     assert code == 0
     assert (tmp_path / "lean.png").read_bytes() == (tmp_path / "plain.png").read_bytes()
     # and all of standard output arrives through a pipe before the quick exit
@@ -145,3 +149,35 @@ def test_the_quick_exit_waits_for_a_running_thread():
     finally:
         go.set()
         worker.join()
+
+
+def test_text_is_unhinted_unless_the_user_chose_a_hinting(tmp_path):
+    code = """
+        from pourbaix.cli.process import prepare_process
+        prepare_process()
+        import matplotlib
+        print(matplotlib.rcParams["text.hinting"])
+        """
+    # (a configuration folder of its own: no matplotlibrc of the machine's user counts)
+    own = {"MATPLOTLIBRC": None, "MPLCONFIGDIR": str(tmp_path / "config")}
+    assert _python(code, tmp_path, env=own).stdout.strip() == "none"
+    rc = tmp_path / "matplotlibrc"
+    rc.write_text("text.hinting: native\n", encoding="utf-8")
+    chosen = _python(code, tmp_path, env={"MATPLOTLIBRC": str(rc)})
+    assert chosen.stdout.strip() == "native", chosen.stderr
+
+
+def test_unhinted_text_widths_scale_with_the_dpi():
+    # what lets labels placed at one dpi fit when drawn at another (pourbaix.cli.process)
+    import matplotlib
+    from matplotlib.backends.backend_agg import RendererAgg
+    from matplotlib.font_manager import FontProperties
+
+    texts = ("Fe₂O₃ + Cr(OH)₄⁻ + Ni(OH)₃⁻ + MoO₄²⁻ + Mn₃O₄", "E / V vs SHE", "immunity")
+    with matplotlib.rc_context({"text.hinting": "none"}):
+        for size in (7.0, 8.5, 10.0):
+            prop = FontProperties(size=size)
+            for text in texts:
+                w100 = RendererAgg(10, 10, 100).get_text_width_height_descent(text, prop, False)[0]
+                w200 = RendererAgg(10, 10, 200).get_text_width_height_descent(text, prop, False)[0]
+                assert abs(w200 / (2 * w100) - 1) < 1e-3, (text, size)
