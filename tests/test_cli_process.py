@@ -16,8 +16,8 @@ from cli_run import run
 REPO = Path(__file__).resolve().parents[1]
 
 
-def _python(code, tmp_path, env=None):
-    """Run ``code`` in a fresh interpreter in ``tmp_path``; the CompletedProcess.
+def _interpreter(args, tmp_path, env=None):
+    """Run ``python ARGS`` with this checkout importable, in ``tmp_path``; the CompletedProcess.
 
     ``env`` adds to the environment; a value None removes the variable.
     """
@@ -25,7 +25,7 @@ def _python(code, tmp_path, env=None):
     full_env = {k: v for k, v in full_env.items() if v is not None}
     full_env["PYTHONPATH"] = str(REPO) + os.pathsep + full_env.get("PYTHONPATH", "")
     return subprocess.run(
-        [sys.executable, "-c", textwrap.dedent(code)],
+        [sys.executable, *args],
         capture_output=True,
         text=True,
         cwd=tmp_path,
@@ -34,17 +34,14 @@ def _python(code, tmp_path, env=None):
     )
 
 
+def _python(code, tmp_path, env=None):
+    """Run ``code`` in a fresh interpreter (see :func:`_interpreter`)."""
+    return _interpreter(["-c", textwrap.dedent(code)], tmp_path, env)
+
+
 def _program(args, tmp_path):
     """Run ``python -m pourbaix.cli ARGS`` (what the console script runs) in ``tmp_path``."""
-    env = {**os.environ, "PYTHONPATH": str(REPO) + os.pathsep + os.environ.get("PYTHONPATH", "")}
-    return subprocess.run(
-        [sys.executable, "-m", "pourbaix.cli", *args],
-        capture_output=True,
-        text=True,
-        cwd=tmp_path,
-        env=env,
-        check=False,
-    )
+    return _interpreter(["-m", "pourbaix.cli", *args], tmp_path)
 
 
 def test_the_program_draws_the_same_figure_as_main_in_process(tmp_path, capsys):
