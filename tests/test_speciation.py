@@ -126,3 +126,63 @@ def test_cli_help_carries_the_caution(capsys):
     with pytest.raises(SystemExit):
         main(["speciation", "--help"])
     assert "cyanide" in capsys.readouterr().out
+
+
+def test_water_activity_shifts_hydrolysis_by_mass_action():
+    # Cu2+ + H2O = CuOH+ + H+ and Cu2+ + 2 H2O = Cu(OH)2(aq) + 2 H+: in an ideal solution
+    # the ratios to Cu2+ go as a_w and a_w^2 (mass action; common practice)
+    kw = dict(potential_v=0.5, ph_range=(5.0, 6.0), points=5)
+    plain = compute_speciation("Cu", {"Cu": 1e-6}, **kw)
+    brine = compute_speciation("Cu", {"Cu": 1e-6}, water_activity=0.6, **kw)
+    s = plain.system
+    cu = s.index("Cu^2+")
+    for name, n_water in (("CuOH^+", 1), ("Cu(OH)2(aq)", 2)):
+        i = s.index(name)
+        shift = (brine.amounts[:, i] / brine.amounts[:, cu]) / (
+            plain.amounts[:, i] / plain.amounts[:, cu]
+        )
+        np.testing.assert_allclose(shift, 0.6**n_water, rtol=1e-9)
+    assert brine.water_activity == 0.6 and "water activity 0.6" in brine.summary()
+
+
+def test_pressure_moves_nickel_hydrolysis_as_the_hkf_equations_say():
+    # Ni2+ + H2O = NiOH+ + H+ at 25 °C, 500 bar against 1 bar: both ions carry the
+    # SUPCRT-family HKF parameters (Shock et al. 1997); pygcc (test-only) evaluates the
+    # same equations with its own IAPWS-95 water and FGL97 dielectric constant
+    pygcc_utils = pytest.importorskip("pygcc.pygcc_utils")
+    species_eos = pytest.importorskip("pygcc.species_eos")
+    water_eos = pytest.importorskip("pygcc.water_eos")
+    kw = dict(potential_v=0.5, ph_range=(6.0, 7.0), points=3)
+    low = compute_speciation("Ni", {"Ni": 1e-6}, **kw)
+    high = compute_speciation("Ni", {"Ni": 1e-6}, pressure_bar=500.0, **kw)
+    s = low.system
+    ni, nioh = s.index("Ni^2+"), s.index("NiOH^+")
+    ours = np.log10(
+        (high.amounts[:, nioh] / high.amounts[:, ni]) / (low.amounts[:, nioh] / low.amounts[:, ni])
+    )
+    db = pygcc_utils.db_reader().dbaccessdic
+    tc, p = np.array([25.0, 25.0]), np.array([1.0, 500.0])
+    water = water_eos.iapws95(T=tc, P=p)
+    eps = np.asarray(water_eos.water_dielec(T=tc, P=p, Dielec_method="FGL97").E)
+    rho = np.asarray(water.rho)
+
+    def g(name):  # [cal/mol]
+        return np.asarray(species_eos.supcrtaq(tc, p, db[name], Dielec_method="FGL97", rho=rho, E=eps))
+
+    dg = (g("NiOH+") - g("Ni++") - np.asarray(water.G)) * 4.184e-3  # kJ/mol
+    expected = -(dg[1] - dg[0]) / (RT * math.log(10))
+    np.testing.assert_allclose(ours, expected, atol=1e-4)
+    assert high.pressure_bar == 500.0 and "500 bar" in high.summary()
+
+
+def test_cli_pressure_and_water_activity(tmp_path, capsys):
+    out = tmp_path / "s.json"
+    args = ["speciation", "Ni", "--total", "Ni=1e-6", "--potential", "0.5", "--points", "5"]
+    code = main([*args, "--pressure", "500", "--water-activity", "0.9", "--out", str(out)])
+    assert code == 0, capsys.readouterr().err
+    doc = json.loads(out.read_text(encoding="utf-8"))
+    assert doc["pressure_bar"] == 500.0 and doc["water_activity"] == 0.9
+    bad = tmp_path / "bad.json"
+    assert main([*args, "--water-activity", "1.5", "--out", str(bad)]) == 2
+    err = capsys.readouterr().err
+    assert "water activity" in err and not bad.exists()

@@ -48,6 +48,10 @@ class SpeciationResult:
         Ionic strength of each equilibrium [mol/kg].
     warnings : tuple of str
         Things the user must know.
+    pressure_bar : float
+        Pressure [bar] (1 bar, or the saturation pressure above 100 °C, unless given).
+    water_activity : float
+        Activity of water [-].
     """
 
     system: object
@@ -60,6 +64,16 @@ class SpeciationResult:
     present: np.ndarray
     ionic_strength: np.ndarray
     warnings: tuple = ()
+    pressure_bar: float = 1.0
+    water_activity: float = 1.0
+
+    @property
+    def state_text(self):
+        """Temperature, pressure and (below 1) the water activity, as text."""
+        parts = [f"{self.temperature_c:g} °C", f"{self.pressure_bar:.4g} bar"]
+        if self.water_activity != 1.0:
+            parts.append(f"water activity {self.water_activity:g}")
+        return "  ·  ".join(parts)
 
     # -------------------------------------------------------------- derived
     def metal_fraction(self):
@@ -148,6 +162,8 @@ class SpeciationResult:
             "fixed": self.fixed,
             "reference": self.reference,
             "temperature_c": self.temperature_c,
+            "pressure_bar": self.pressure_bar,
+            "water_activity": self.water_activity,
             "totals_mol_kg": dict(zip(s.components, map(float, s.totals), strict=True)),
             "species": [
                 {"name": n, "phase": sp.phase, "source": sp.source}
@@ -168,7 +184,7 @@ class SpeciationResult:
         """A few lines naming where each solid is present and the largest ligand consumption."""
         s = self.system
         unit = "pH" if self.axis == "ph" else "V"
-        lines = [self.title]
+        lines = [f"{self.title} ({self.state_text.replace('  ·  ', ', ')})"]
         for i in np.flatnonzero(self.present.any(axis=0)):
             where = self.x[self.present[:, i]]
             lines.append(f"  {s.names[i]} present from {where.min():g} to {where.max():g} {unit}")
@@ -221,9 +237,11 @@ def compute_speciation(
     potential_range_v=(-1.0, 1.2),
     points=281,
     temperature_c=25.0,
+    pressure_bar=None,
     ionic_strength=None,
     background=None,
     activity_model="davies",
+    water_activity=1.0,
     reference="SHE",
     dataset="default",
     data_files=(),
@@ -250,11 +268,18 @@ def compute_speciation(
         Number of points, 3 to 5001.
     temperature_c : float
         Temperature [°C].
+    pressure_bar : float, optional
+        Pressure [bar]; default 1 bar, or the saturation pressure above 100 °C
+        (an autoclave leach under an oxygen or steam overpressure gives it).
     ionic_strength, background : optional
         Background electrolyte (ionic strength [mol/kg] or salts); with
         either, activity coefficients follow each equilibrium's ionic strength.
     activity_model : str
         Activity-coefficient model.
+    water_activity : float
+        Activity of water [-], 0.05 to 1 (below 1 in brines and concentrated
+        liquors): it shifts every equilibrium that takes up or gives off water,
+        e.g. ``Cu²⁺ + H₂O = CuOH⁺ + H⁺``.
     reference : str
         Reference electrode.
     dataset : str
@@ -315,9 +340,11 @@ def compute_speciation(
         (element,),
         molality=totals[element],
         temperature_c=temperature_c,
+        pressure_bar=pressure_bar,
         ionic_strength=ionic_strength,
         background=background,
         activity_model=activity_model,
+        water_activity=water_activity,
         ligands={f.name: v for f, v in families} or None,
         reference=reference,
         dataset=dataset,
@@ -332,6 +359,7 @@ def compute_speciation(
         table=table,
         temperature_c=conditions.temperature_c,
         pressure_bar=conditions.pressure_bar,
+        water_activity=conditions.water_activity,
         exclude=exclude,
     )
     model = conditions.activity_model if conditions.ionic_strength > 0 else None
@@ -394,4 +422,6 @@ def compute_speciation(
         present=present,
         ionic_strength=ionic,
         warnings=tuple(notes),
+        pressure_bar=conditions.pressure_bar,
+        water_activity=conditions.water_activity,
     )

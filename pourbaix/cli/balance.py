@@ -7,7 +7,7 @@ import sys
 from pathlib import Path
 
 from pourbaix.cli.files import save_figures
-from pourbaix.cli.types import named_positive
+from pourbaix.cli.types import named_positive, positive_number
 from pourbaix.errors import OptionError
 from pourbaix.outputs import announce_written
 
@@ -123,9 +123,11 @@ def cmd_speciation(a):
         potential_range_v=tuple(a.potential_range),
         points=a.points,
         temperature_c=a.temperature,
+        pressure_bar=a.pressure,
         ionic_strength=a.ionic_strength,
         background=a.background,
         activity_model=a.activity_model,
+        water_activity=a.water_activity,
         reference=a.reference,
         dataset=a.dataset,
         data_files=tuple(a.data),
@@ -168,9 +170,11 @@ def cmd_speciation(a):
             a.element[0],
             tuple(a.total),
             temperature_c=a.temperature,
+            pressure_bar=a.pressure,
             ionic_strength=a.ionic_strength,
             background=a.background,
             activity_model=a.activity_model,
+            water_activity=a.water_activity,
             reference=a.reference,
             dataset=a.dataset,
             data_files=tuple(a.data),
@@ -251,6 +255,12 @@ def register(sub, add_conditions, map_kwargs):
         "--temperature", type=float, default=25.0, metavar="C", help="temperature [°C] (default 25)"
     )
     sp.add_argument(
+        "--pressure",
+        type=positive_number,
+        metavar="BAR",
+        help="pressure [bar], up to 5000 (default 1, or saturation above 100 °C)",
+    )
+    sp.add_argument(
         "--ionic-strength", type=float, metavar="I", help="background ionic strength [mol/kg]"
     )
     sp.add_argument(
@@ -260,6 +270,12 @@ def register(sub, add_conditions, map_kwargs):
         "--activity-model",
         default="davies",
         help="activity model with a background (default davies)",
+    )
+    sp.add_argument(
+        "--water-activity",
+        type=positive_number,
+        default=1.0,
+        help="activity of water, 0.05 to 1 (below 1 for brines; noted below 0.5)",
     )
     sp.add_argument(
         "--exclude", nargs="+", default=[], metavar="SPECIES", help="species to leave out"

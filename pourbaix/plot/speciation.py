@@ -4,7 +4,14 @@ from __future__ import annotations
 
 import numpy as np
 
-from pourbaix.plot.style import CAPTION_COLOUR, INK, PALETTES, power_text, typeset_formulas
+from pourbaix.plot.style import (
+    CAPTION_COLOUR,
+    INK,
+    PALETTES,
+    power_text,
+    typeset_formulas,
+    wrap_measured,
+)
 
 __all__ = ["SPECIES_STYLES", "draw_speciation"]
 
@@ -224,14 +231,14 @@ def draw_speciation(result, axes=None, *, molality=False, caption=True):
             f"{typeset_formulas(c)} {power_text(v)}"
             for c, v in zip(s.components, s.totals, strict=True)
         )
-        import textwrap
-
         text = (
-            f"totals: {totals} mol/kg  ·  mass-balanced equilibrium  ·  shaded: solids present"
+            f"{result.state_text}  ·  totals: {totals} mol/kg  ·  mass-balanced equilibrium  ·  "
+            "shaded: solids present"
             + ("  ·  band: ligand bound by the metal" if s.ligands else "")
             + ".  A thermodynamic prediction (equilibrium only). Cyanide and ammonia are "
             "hazardous: follow local codes, the applicable standards and licensed practice."
         )
-        wrapped = "\n".join(textwrap.wrap(text, 120))
+        width_pt = fig.get_figwidth() * 72.0 * (1.0 - 0.11 - 0.02)  # left at 0.11, a margin right
+        wrapped = "\n".join(wrap_measured(text, width_pt, 7.5))
         fig.text(0.11, 0.012, wrapped, fontsize=7.5, color=CAPTION_COLOUR, va="bottom", ha="left")
     return axes

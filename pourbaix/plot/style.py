@@ -290,7 +290,7 @@ def text_width_pt(text, fontsize):
     return float(width)
 
 
-def _wrap_measured(text, width_pt, fontsize):
+def wrap_measured(text, width_pt, fontsize):
     """Break one line of text at spaces into lines no wider than ``width_pt``.
 
     Word widths are measured once and added (with the space's width); a 2 %
@@ -327,9 +327,9 @@ def pack_caption(lines, width_pt, fontsize):
             if not cur or text_width_pt(cand, fontsize) <= 0.98 * width_pt:
                 cur = cand
             else:
-                out += _wrap_measured(cur, width_pt, fontsize)
+                out += wrap_measured(cur, width_pt, fontsize)
                 cur = part
-        out += _wrap_measured(cur, width_pt, fontsize)
+        out += wrap_measured(cur, width_pt, fontsize)
     return out
 
 
