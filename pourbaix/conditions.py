@@ -549,6 +549,12 @@ def make_conditions(
 
     model_name = str(activity_model)
     solution.model_validity(model_name)  # an unknown model is an error whatever the strength
+    if model_name.strip().lower() == "pitzer" and wa != 1.0:
+        # the solver takes a_w from the brine's osmotic coefficient (pourbaix.physics.pitzer)
+        raise ConditionsError(
+            f"water activity {water_activity} given with the Pitzer model, which computes it "
+            "from the brine; leave the water activity out"
+        )
     ionic = _ionic_strength(ionic_strength, background)
     if background is not None:
         notes += _background_ligand_notes(background, families)

@@ -345,3 +345,51 @@ def test_pitzer_in_the_solver_range_is_enforced():
             m[n] = max(r.amounts[cold.index(n)], 1e-300)
     direct = pitzer.pitzer(m, other_charges=others).log_gamma
     assert r.log_gamma[ca] == pytest.approx(direct["Ca^2+"], abs=1e-10)
+
+
+def test_pitzer_in_solve_at_feeds_the_water_activity_back():
+    # Gypsum (CaSO4·2H2O) in NaCl brines through the system-level solver: each equilibrium
+    # that takes up water moves with the brine's water activity (Pitzer's osmotic
+    # coefficient), here as a_w^2 in the gypsum solubility product. The tables' gypsum is
+    # not HMW84's (its solubility in water comes out 0.018 mol/kg), so the check is the
+    # rise over pure water: Marshall & Slusher 1966, 25 °C (from memory, as above): about
+    # 0.0154 mol/kg in water and a maximum of about 0.056 near 3 mol/kg NaCl, a factor 3.64.
+    # With the water activity left at 1 the factor comes out 3.13.
+    from pourbaix.physics.components import build_system
+    from pourbaix.solve.equilibrium import solve_at
+
+    # anhydrite and the CaSO4 ion pair left out: M&S measured gypsum; HMW84 has no pair
+    system = build_system(
+        "Ca", {"Ca": 0.2, "S": 0.2}, exclude=["CaSO4(aq)", "CaSO4:anhydrite"]
+    )
+    ca, so4 = system.index("Ca^2+"), system.index("SO4^2-")
+    dissolved, start = {}, None
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", RangeWarning)
+        for nacl in (0.0, 1.0, 2.0, 2.5, 3.0, 3.5, 4.0, 6.0):
+            r = solve_at(
+                system, 7.0, 0.6, activity_model="pitzer",
+                background=f"NaCl={nacl}" if nacl else None, start=start,
+            )  # fmt: skip
+            assert r.present[system.index("CaSO4·2H2O:gypsum")]
+            dissolved[nacl] = r.amounts[ca]
+            start = r
+            # the water activity used is that of the equilibrium's own composition
+            brine = {"Ca^2+": r.amounts[ca], "SO4^2-": r.amounts[so4]}
+            if nacl:
+                brine.update({"Na^+": nacl, "Cl^-": nacl})
+            assert r.water_activity == pytest.approx(pitzer.pitzer(brine).water_activity, abs=1e-6)
+    peak = max(dissolved, key=dissolved.get)
+    assert 2.5 <= peak <= 3.5
+    assert dissolved[peak] / dissolved[0.0] == pytest.approx(0.056 / 0.0154, rel=0.05)
+    assert dissolved[6.0] < dissolved[peak]
+
+
+def test_a_water_activity_given_with_pitzer_is_refused():
+    # the Pitzer model computes the water activity from the brine: a second value would
+    # contradict it
+    from pourbaix.conditions import make_conditions
+
+    with pytest.raises(ConditionsError, match="Pitzer model, which computes it"):
+        make_conditions("Ca", activity_model="pitzer", water_activity=0.9)
+    assert make_conditions("Ca", activity_model="pitzer").water_activity == 1.0

@@ -63,6 +63,8 @@ class MassBalanceSystem:
         R T ln10 / F [V].
     species_energies : tuple of SpeciesEnergy
         The data used, for reports and export.
+    water_activity : float
+        Activity of water the planes were built with [-].
     """
 
     metals: tuple
@@ -80,6 +82,17 @@ class MassBalanceSystem:
     pressure_bar: float
     nernst_v: float
     species_energies: tuple
+    water_activity: float = 1.0
+
+    @property
+    def water_counts(self):
+        """Water taken up in forming each species from the elements, H2O, H+ and e- [-].
+
+        Every O atom comes from water (no element's reference state holds
+        oxygen), so it is the species' O count: each plane holds
+        ``-n_O (RT/F) ln a_w`` per formula unit.
+        """
+        return np.array([dict(sp.composition).get("O", 0) for sp in self.species], dtype=float)
 
     def index(self, name):
         """Row of a species by its map name (e.g. ``"Cu(NH3)4^2+"``, ``"NH3(aq)"``).
@@ -370,4 +383,5 @@ def build_system(
         pressure_bar=ctx.pressure_bar,
         nernst_v=ctx.nernst_v,
         species_energies=tuple(ses[i] for i in order),
+        water_activity=float(ctx.water_activity),
     )

@@ -402,7 +402,7 @@ def log_gamma_long_range(charge, ionic_strength):
     return log_gamma(charge, ionic_strength, 25.0, model="pitzer")
 
 
-def solver_log_gamma(names, charges, background=None, temperature_c=25.0):
+def solver_log_gamma(names, charges, background=None, temperature_c=25.0, *, water=False):
     """log10 gamma of a system's dissolved species as a function of their molalities.
 
     For :func:`pourbaix.solve.equilibrium.solve_equilibrium`'s
@@ -422,11 +422,15 @@ def solver_log_gamma(names, charges, background=None, temperature_c=25.0):
         Background salts [mol/kg], e.g. ``"NaCl=1"``; ions of HMW84 only.
     temperature_c : float
         Temperature [°C]; 25 only.
+    water : bool
+        Also return ln a_w of the same evaluation (eq. 2.17 of Robinson &
+        Stokes 1959 with the osmotic coefficient, as in :func:`pitzer`).
 
     Returns
     -------
     callable
-        ``f(molalities) -> numpy.ndarray`` of log10 gamma per species [-].
+        ``f(molalities) -> numpy.ndarray`` of log10 gamma per species [-];
+        with ``water``, ``f(molalities) -> (log10 gamma, ln a_w)``.
 
     Raises
     ------
@@ -485,7 +489,8 @@ def solver_log_gamma(names, charges, background=None, temperature_c=25.0):
             # a vanishing amount still gets its coefficient (it is dropped at exactly 0)
             comp[n] = comp.get(n, 0.0) + max(float(v), 1e-300)
         r = pitzer(comp, temperature_c, params, other_charges=others)
-        return np.array([r.log_gamma.get(n, 0.0) for n in names])
+        lg = np.array([r.log_gamma.get(n, 0.0) for n in names])
+        return (lg, math.log(r.water_activity)) if water else lg
 
     return log_gamma
 
@@ -512,7 +517,8 @@ def system_note(system):
     text = (
         "Pitzer (Harvie, Møller & Weare 1984, 25 °C): full binary and ternary terms for "
         + (", ".join(covered) if covered else "none of this system's species")
-        + " with the background ions"
+        + " with the background ions; the water activity from the osmotic coefficient, in "
+        "every equilibrium that takes up water"
     )
     if charged:
         text += "; charge terms only (no parameters) for " + ", ".join(charged)

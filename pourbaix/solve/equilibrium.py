@@ -85,6 +85,10 @@ class EquilibriumResult:
     energies_rt : numpy.ndarray or None, shape (S,)
         mu_s / RT used, with ln gamma_s for the dissolved species, for the
         predictor of a warm start [-].
+    water_activity : float or None
+        Activity of water computed from the composition (the Pitzer model
+        in :func:`solve_at`), which the energies used [-]; None where the
+        energies kept the value they were built with.
     """
 
     amounts: np.ndarray
@@ -97,6 +101,7 @@ class EquilibriumResult:
     iterations: int
     active: tuple
     energies_rt: np.ndarray | None = None
+    water_activity: float | None = None
 
 
 def _objective(b, lam, A_aq, mu_aq):
@@ -443,27 +448,46 @@ def solve_equilibrium(
     )
 
 
-def _solve_composition_gamma(prep, mu_aq0, mu_s, lam, active, lg, function, max_iter, max_outer):
+def _solve_composition_gamma(
+    prep, mu_aq0, mu_s, lam, active, lg, function, max_iter, max_outer, water=None
+):
     """Passes of the fixed-gamma solve with gamma from the composition, Anderson-mixed.
 
-    Returns (lam, active, solid amounts, molalities, log10 gamma, Newton iterations).
+    With ``water = (n_aq, n_s, ln_aw0, ln_aw)``, ``function`` also returns ln a_w
+    and the energies follow it: mu_s / RT moves by -n_s (ln a_w - ln_aw0), n_s the
+    water taken up in forming species s (Robinson & Stokes 1959, eq. 2.17 for a_w).
+
+    Returns (lam, active, solid amounts, molalities, log10 gamma, ln a_w or None,
+    Newton iterations).
     """
     ln10 = math.log(10.0)
     total_it = 0
-    previous = None  # (lg, residual) of the last pass
+    previous = None  # (x, residual) of the last pass
     change = math.inf
+    n_aq = n_s = None
+    w0 = w = 0.0
+    if water is not None:
+        n_aq, n_s, w0, w = water
     for _ in range(max_outer):
+        shift_aq = 0.0 if water is None else -n_aq * (w - w0)
+        shift_s = 0.0 if water is None else -n_s * (w - w0)
         lam, active, nu, it = _solve_fixed_gamma(
-            prep, mu_aq0 + lg * ln10, mu_s, lam, active, max_iter
+            prep, mu_aq0 + shift_aq + lg * ln10, mu_s + shift_s, lam, active, max_iter
         )
         total_it += it
-        m = np.exp(np.minimum(prep.A_aq @ lam - mu_aq0 - lg * ln10, _EXP_MAX))
-        residual = np.asarray(function(m), dtype=float) - lg
+        m = np.exp(np.minimum(prep.A_aq @ lam - mu_aq0 - shift_aq - lg * ln10, _EXP_MAX))
+        if water is None:
+            x = lg
+            residual = np.asarray(function(m), dtype=float) - lg
+        else:
+            new_lg, new_w = function(m)
+            x = np.append(lg, w)
+            residual = np.append(np.asarray(new_lg, dtype=float) - lg, float(new_w) - w)
         change = float(np.max(np.abs(residual))) if len(residual) else 0.0
         if not math.isfinite(change):
             break
         if change <= 1e-12:
-            return lam, active, nu, m, lg, total_it
+            return lam, active, nu, m, lg, (None if water is None else w), total_it
         step = residual
         if previous is not None:
             # Anderson mixing, depth 1 (a secant step on the residual)
@@ -471,12 +495,18 @@ def _solve_composition_gamma(prep, mu_aq0, mu_s, lam, active, lg, function, max_
             denom = float(d_res @ d_res)
             if denom > 0:
                 theta = float(residual @ d_res) / denom
-                step = residual - theta * ((lg - previous[0]) + d_res)
-        previous = (lg, residual)
-        lg = lg + step
+                step = residual - theta * ((x - previous[0]) + d_res)
+        previous = (x, residual)
+        x = x + step
+        if water is None:
+            lg = x
+        else:
+            lg, w = x[:-1], float(x[-1])
     raise EquilibriumError(
         f"activity coefficients did not settle in {max_outer} passes "
-        f"(last change {change:.1e} in log10 gamma)"
+        f"(last change {change:.1e} in log10 gamma"
+        + ("" if water is None else " or ln a_w")
+        + ")"
     )
 
 
@@ -490,8 +520,14 @@ def _solve_prepared(
     max_iter=200,
     max_outer=60,
     composition_log_gamma=None,
+    water=None,
 ):
-    """:func:`solve_equilibrium` on a system checked and split by :func:`_prepare`."""
+    """:func:`solve_equilibrium` on a system checked and split by :func:`_prepare`.
+
+    ``water = (n, ln_aw0)``: the water taken up in forming each species and ln a_w
+    of ``mu``; ``composition_log_gamma`` then also returns ln a_w, which the
+    energies follow (see :func:`_solve_composition_gamma`).
+    """
     aq, b, A_aq, A_s = prep.aq, prep.b, prep.A_aq, prep.A_s
     solid_rows = prep.solid_rows
     mu_aq0, mu_s = mu[aq], mu[~aq]
@@ -507,6 +543,8 @@ def _solve_prepared(
             # (least squares, weighted by amount) and the solids present (exactly)
             mu_new = mu.copy()
             mu_new[aq] += start.log_gamma[aq] * ln10
+            if water is not None and start.water_activity is not None:
+                mu_new -= water[0] * (math.log(start.water_activity) - water[1])
             lam = _predict(lam, start.amounts[aq], mu_new - old, A_aq, A_s, aq, active, b)
     else:
         lam = _initial(b, A_aq, mu_aq0)
@@ -514,12 +552,32 @@ def _solve_prepared(
         ionic = float(background_ionic_strength)
     total_it = 0
     lg = np.zeros(len(mu_aq0))
+    ln_aw = None
     if composition_log_gamma is not None:
+        loop_water = None
+        if water is not None:
+            n_w, w0 = water
+            w_start = w0
+            if start is not None and start.water_activity is not None:
+                w_start = math.log(start.water_activity)
+            loop_water = (n_w[aq], n_w[~aq], w0, w_start)
         if start is not None and len(start.log_gamma) == len(mu):
             lg = np.asarray(start.log_gamma, dtype=float)[aq]
-        lam, active, nu, m, lg, total_it = _solve_composition_gamma(
-            prep, mu_aq0, mu_s, lam, active, lg, composition_log_gamma, max_iter, max_outer
+        lam, active, nu, m, lg, ln_aw, total_it = _solve_composition_gamma(
+            prep,
+            mu_aq0,
+            mu_s,
+            lam,
+            active,
+            lg,
+            composition_log_gamma,
+            max_iter,
+            max_outer,
+            water=loop_water,
         )
+        if ln_aw is not None:  # the energies used: the water activity of the composition
+            mu = mu - water[0] * (ln_aw - water[1])
+            mu_s = mu[~aq]
         ionic = float(background_ionic_strength + 0.5 * (m @ prep.zz))
     else:
         for _ in range(max_outer):
@@ -570,6 +628,7 @@ def _solve_prepared(
         iterations=total_it,
         active=tuple(int(solid_rows[p]) for p in active),
         energies_rt=mu + lgam * ln10,
+        water_activity=None if ln_aw is None else math.exp(ln_aw),
     )
 
 
@@ -636,8 +695,11 @@ def solve_at(
     mu = energies_rt(system, ph, potential_v)
     lg = None
     composition = None
+    water = None
     if activity_model is not None and str(activity_model).strip().lower() == "pitzer":
         composition = _pitzer_function(system, background)
+        # the water activity of the brine, fed back into every equilibrium that takes up water
+        water = (system.water_counts, math.log(system.water_activity))
     elif activity_model is not None:
         from pourbaix.physics import solution
 
@@ -658,6 +720,7 @@ def solve_at(
             background_ionic_strength=background_ionic_strength,
             start=start,
             composition_log_gamma=composition,
+            water=water,
         )
     except EquilibriumError as exc:
         raise EquilibriumError(
@@ -902,6 +965,7 @@ def _pitzer_function(system, background):
         [int(z) for z, a in zip(system.charges, aq, strict=True) if a],
         background,
         system.temperature_c,
+        water=True,
     )
     if len(_PITZER) >= 8:
         _PITZER.pop(next(iter(_PITZER)))
