@@ -22,10 +22,10 @@ from __future__ import annotations
 import argparse
 import json
 import os
-import statistics
 import subprocess
 import sys
-import time
+
+from timing import median_time
 
 SYSTEMS = [
     (("Fe", "Cr"), (3, 1), {}),
@@ -86,16 +86,6 @@ def peak_mb(metals, ratio, ligands, method):
     return after / 1024.0, (after - before) / 1024.0
 
 
-def median_time(fn, repeat):
-    fn()  # warm-up (imports, caches)
-    ts = []
-    for _ in range(repeat):
-        t = time.perf_counter()
-        fn()
-        ts.append(time.perf_counter() - t)
-    return statistics.median(ts)
-
-
 def main(argv=None):
     p = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     p.add_argument("--repeat", type=int, default=5, help="runs per figure (median)")
@@ -126,7 +116,8 @@ def main(argv=None):
                 )
 
             n_dom = len(call().domains)
-            t = median_time(call, a.repeat if len(metals) < 5 or method == "walk" else 1)
+            runs = a.repeat if len(metals) < 5 or method == "walk" else 1
+            t = median_time(call, runs, warm_up=True)[0]
             peak, extra = peak_mb(list(metals), list(ratio), ligands, method)
             rows[method] = (t, peak)
             name = "-".join(metals) + " " + ":".join(str(v) for v in ratio)

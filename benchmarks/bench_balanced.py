@@ -30,15 +30,7 @@ import time
 from pathlib import Path
 
 import numpy as np
-
-
-def _median_time(fn, repeat):
-    ts, out = [], None
-    for _ in range(repeat):
-        t = time.perf_counter()
-        out = fn()
-        ts.append(time.perf_counter() - t)
-    return statistics.median(ts), out
+from timing import median_time
 
 
 def _grid_time(system, ph, e, every=20):
@@ -123,7 +115,7 @@ def main(argv=None):
             return compute_balanced_map(metal, totals, table=table)
 
         run()  # warm-up
-        t, m = _median_time(run, a.repeat)
+        t, m = median_time(run, a.repeat)
         grid = len(ph) * len(e)
         t_grid, t_one, t_batch = _grid_time(m.system, ph, e)
         name = f"{metal}-{'-'.join(k for k in totals if k != metal)}"

@@ -37,14 +37,7 @@ import tempfile
 import time
 from pathlib import Path
 
-
-def _median_time(fn, repeat):
-    ts, out = [], None
-    for _ in range(repeat):
-        t = time.perf_counter()
-        out = fn()
-        ts.append(time.perf_counter() - t)
-    return statistics.median(ts), out
+from timing import median_time
 
 
 def _counts(ax):
@@ -144,15 +137,15 @@ def main(argv=None):
         path = os.path.join(folder, "map.png")
         for name, make in maps.items():
             make()
-            t_compute, dmap = _median_time(make, a.repeat)
+            t_compute, dmap = median_time(make, a.repeat)
 
             def drawn(dmap=dmap):
                 ax = draw_map(dmap)
                 plt.close(ax.figure)
                 return ax
 
-            t_draw, ax = _median_time(drawn, a.repeat)
-            t_save, _ = _median_time(lambda ax=ax: save_figure(ax, path), a.repeat)
+            t_draw, ax = median_time(drawn, a.repeat)
+            t_save, _ = median_time(lambda ax=ax: save_figure(ax, path), a.repeat)
             labelled, numbered = _counts(ax)
             unlabelled = len(dmap.domains) - labelled - numbered
             w, h = ax.figure.get_size_inches()

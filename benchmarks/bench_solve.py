@@ -26,15 +26,7 @@ import time
 from pathlib import Path
 
 import numpy as np
-
-
-def _median_time(fn, repeat):
-    ts = []
-    for _ in range(repeat):
-        t = time.perf_counter()
-        fn()
-        ts.append(time.perf_counter() - t)
-    return statistics.median(ts)
+from timing import median_time
 
 
 def grid_argmin(planes, window, dph=0.01, de=0.001):
@@ -98,10 +90,10 @@ def bench_systems(repeat):
         if planes is None:
             m = pourbaix.compute_map(name, table=table)
             planes = m._planes
-            t_map = _median_time(lambda n=name: pourbaix.compute_map(n, table=table), repeat)
+            t_map = median_time(lambda n=name: pourbaix.compute_map(n, table=table), repeat)[0]
         else:
             t_map = float("nan")
-        t_solve = _median_time(lambda p=planes: lower_envelope(p, window), repeat)
+        t_solve = median_time(lambda p=planes: lower_envelope(p, window), repeat)[0]
         t0 = time.perf_counter()
         xs, ys, grid = grid_argmin(planes, window)
         t_grid = time.perf_counter() - t0
@@ -125,7 +117,7 @@ def bench_command(repeat):
     split_code = (
         "import time, sys; t0=time.perf_counter(); import pourbaix; from pourbaix.maps.domain_map import compute_map; "
         "t1=time.perf_counter(); m=compute_map('Fe'); t2=time.perf_counter(); "
-        "from pourbaix import draw; ax=draw.draw_map(m); draw.save_figure(ax, sys.argv[1]); t3=time.perf_counter(); "
+        "from pourbaix.plot import draw; ax=draw.draw_map(m); draw.save_figure(ax, sys.argv[1]); t3=time.perf_counter(); "
         "print(t1-t0, t2-t1, t3-t2)"
     )
     with tempfile.TemporaryDirectory() as tmp:

@@ -23,20 +23,9 @@ this 2-core machine. No assertions: this prints figures.
 from __future__ import annotations
 
 import argparse
-import statistics
-import time
 
 import numpy as np
-
-
-def median_time(fn, repeat):
-    fn()  # warm-up
-    ts = []
-    for _ in range(repeat):
-        t = time.perf_counter()
-        fn()
-        ts.append(time.perf_counter() - t)
-    return statistics.median(ts)
+from timing import median_time
 
 
 def main(argv=None):
@@ -78,9 +67,9 @@ def main(argv=None):
         b = planes()
         solve()
 
-    t_planes = median_time(planes, a.repeat)
-    t_solve = median_time(solve, a.repeat)
-    t_batch = median_time(whole_batch, a.repeat)
+    t_planes = median_time(planes, a.repeat, warm_up=True)[0]
+    t_solve = median_time(solve, a.repeat, warm_up=True)[0]
+    t_batch = median_time(whole_batch, a.repeat, warm_up=True)[0]
 
     rng = np.random.default_rng(16)
     sample = rng.choice(n, size=min(a.sample, n), replace=False)
@@ -91,7 +80,7 @@ def main(argv=None):
             dm.probe(7.0, -0.5)
             [d.area for d in dm.domains]
 
-    t_single = median_time(one_each, 1) / len(sample) * n
+    t_single = median_time(one_each, 1, warm_up=True)[0] / len(sample) * n
     print(
         f"{n} iron maps ({side} temperatures x {side} activities), answers: species and margins at"
     )
@@ -115,7 +104,7 @@ def main(argv=None):
         passive_ph=9.0,
         solubility_at=(7.0, -0.5),
     )
-    t_local = median_time(lambda: sweep("Fe", **kw), a.repeat)
+    t_local = median_time(lambda: sweep("Fe", **kw), a.repeat, warm_up=True)[0]
     print(f"  pourbaix.sweep, local processes: {t_local:6.2f} s  {n / t_local:10.0f} maps/s")
     if a.skip_cluster:
         return
@@ -127,7 +116,9 @@ def main(argv=None):
         ) as cluster,
         Client(cluster) as client,
     ):
-        t_cluster = median_time(lambda: sweep("Fe", client=client, **kw), a.repeat)
+        t_cluster = median_time(
+            lambda: sweep("Fe", client=client, **kw), a.repeat, warm_up=True
+        )[0]
     print(
         f"  pourbaix.sweep, 2-worker LocalCluster: {t_cluster:6.2f} s  {n / t_cluster:10.0f} maps/s"
     )
@@ -150,11 +141,11 @@ def bench_alloy_sweep(repeat):
         workers=1,
     )
     n = len(ratios) * 3
-    t_ratio = median_time(lambda: sweep_module.sweep(**kw), repeat)
+    t_ratio = median_time(lambda: sweep_module.sweep(**kw), repeat, warm_up=True)[0]
     by_ratio = sweep_module._by_ratio
     sweep_module._by_ratio = lambda spec, system: False  # the map-by-map route
     try:
-        t_maps = median_time(lambda: sweep_module.sweep(**kw), repeat)
+        t_maps = median_time(lambda: sweep_module.sweep(**kw), repeat, warm_up=True)[0]
     finally:
         sweep_module._by_ratio = by_ratio
     print(

@@ -20,19 +20,9 @@ from __future__ import annotations
 
 import argparse
 import math
-import statistics
-import time
 
 import numpy as np
-
-
-def _median_time(fn, repeat):
-    ts, out = [], None
-    for _ in range(repeat):
-        t = time.perf_counter()
-        out = fn()
-        ts.append(time.perf_counter() - t)
-    return statistics.median(ts), out
+from timing import median_time
 
 
 def synthetic_planes(n, seed=7):
@@ -68,7 +58,7 @@ def main(argv=None):
     lower_envelope(synthetic_planes(50), window)
 
     print("== Fe-Cr-Ni 70:19:11, full tables")
-    t, m = _median_time(
+    t, m = median_time(
         lambda: compute_map(["Fe", "Cr", "Ni"], ratio=(70, 19, 11), table=table), a.repeat
     )
     planes = np.array([u.plane for u in m.units])
@@ -80,8 +70,8 @@ def main(argv=None):
         ],
         dtype=float,
     )
-    t_comb, combos = _median_time(lambda: ratio_combinations(counts, (70, 19, 11)), a.repeat)
-    t_env, _ = _median_time(lambda: lower_envelope(planes, window), a.repeat)
+    t_comb, combos = median_time(lambda: ratio_combinations(counts, (70, 19, 11)), a.repeat)
+    t_env, _ = median_time(lambda: lower_envelope(planes, window), a.repeat)
     print(f"  median compute_map   {t * 1e3:8.1f} ms   (target <= 1000 ms)")
     print(
         f"  species {len(counts)}, combination entries {len(m.units)}, domains {len(m.domains)}, "
@@ -96,7 +86,7 @@ def main(argv=None):
         ("Cu-S-Cl (S 1e-3, Cl 0.1)", {"S": 1e-3, "Cl": 0.1}),
     ):
         print(f"== {label}")
-        t, m = _median_time(
+        t, m = median_time(
             lambda lig=ligands: compute_map("Cu", ligands=lig, table=table), a.repeat
         )
         regions = 1
@@ -115,7 +105,7 @@ def main(argv=None):
     print(f"  {'N':>7} {'time ms':>9} {'stable':>7} {'us / (N log2 N)':>16}")
     for n in sizes:
         P = synthetic_planes(n)
-        t, env = _median_time(lambda P=P: lower_envelope(P, window), max(1, a.repeat // 2))
+        t, env = median_time(lambda P=P: lower_envelope(P, window), max(1, a.repeat // 2))
         ns.append(n)
         ts.append(t)
         print(f"  {n:7d} {t * 1e3:9.1f} {len(env.stable):7d} {t / (n * math.log2(n)) * 1e6:16.4f}")
@@ -140,7 +130,7 @@ def main(argv=None):
         f"  {'system':<24} {'metastable':>10} {'entries':>8} {'time ms':>9} {'us / (N log2 N)':>16}"
     )
     for els, ratio, meta in ladder:
-        t, m = _median_time(
+        t, m = median_time(
             lambda els=els, ratio=ratio, meta=meta: compute_map(
                 els, ratio=ratio, metastable=meta, table=table
             ),

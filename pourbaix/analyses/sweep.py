@@ -561,23 +561,9 @@ def _chunk_ratios(spec, system, cols, table):
                 mask = states == "passivation"
                 passive[m] = batch.passive_width(planes, mask, spec.passive_ph, window)[0]
             area_rows[m] = dict(zip(names[:-1].tolist(), areas.tolist(), strict=True))
-    out = {}
-    if P:
-        for key in _POINT_TEXTS:
-            out[key] = texts[key].astype(str)
-        out.update(floats)
-    if spec.passive_ph is not None:
-        out["passive_width_v"] = passive
-    if spec.solubility_point is not None:  # a single-element answer
-        out["log10_solubility"] = np.full(n, np.nan)
-        out["solubility_solid"] = np.array([""] * n, dtype=str)
-    if spec.areas:
-        names = list(dict.fromkeys(k for row in area_rows for k in row))
-        out["area_names"] = np.array(names, dtype=str)
-        out["area"] = np.array([[row.get(k, 0.0) for k in names] for row in area_rows]).reshape(
-            n, len(names)
-        )
-    return out
+    # solubility is a single-element answer: none for an alloy
+    no_solid = np.array([""] * n, dtype=object)
+    return _chunk_answers(spec, n, texts, floats, passive, np.full(n, np.nan), no_solid, area_rows)
 
 
 def _chunk_by_map(spec, system, cols, table):
@@ -634,8 +620,13 @@ def _chunk_by_map(spec, system, cols, table):
             key = " + ".join(d.species)
             row[key] = row.get(key, 0.0) + d.area
         area_rows.append(row)
+    return _chunk_answers(spec, n, texts, floats, passive, log_sol, sol_solid, area_rows)
+
+
+def _chunk_answers(spec, n, texts, floats, passive, log_sol, sol_solid, area_rows):
+    """The answers of ``n`` grid points solved map by map or ratio by ratio, as arrays."""
     out = {}
-    if P:
+    if spec.points:
         for key in _POINT_TEXTS:
             out[key] = texts[key].astype(str)
         out.update(floats)

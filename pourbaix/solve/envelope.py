@@ -23,7 +23,7 @@ import numpy as np
 
 from pourbaix.errors import ConditionsError
 
-__all__ = ["Envelope", "Edge", "lower_envelope", "clip_domains", "clip_halfplane"]
+__all__ = ["Envelope", "Edge", "lower_envelope", "clip_domains", "clip_halfplane", "unique_points"]
 
 # Two vertices closer than this (in window-normalised units) are one vertex;
 # a plane within this (in volts) of the envelope at a vertex is on it.
@@ -143,7 +143,7 @@ def _polygon_area(poly):
     return 0.5 * float(np.dot(x, np.roll(y, -1)) - np.dot(y, np.roll(x, -1)))
 
 
-def _unique_rows(points, tol):
+def unique_points(points, tol):
     """Sort points by (u, v) and drop each one within ``tol`` of an earlier kept point."""
     if len(points) < 2:
         return points
@@ -242,7 +242,7 @@ def lower_envelope(planes, window):
     uv = np.clip(uv, 0.0, 1.0)
     uv[np.abs(uv) < 1e-11] = 0.0
     uv[np.abs(uv - 1.0) < 1e-11] = 1.0
-    uv = _unique_rows(uv, _VERTEX_TOL)
+    uv = unique_points(uv, _VERTEX_TOL)
     vals = A[:, :1].T + np.outer(uv[:, 0], A[:, 1]) + np.outer(uv[:, 1], A[:, 2])  # (M, K)
     env = vals.min(axis=1)
     tol = _PLANE_TOL * (1.0 + np.abs(env).max())

@@ -689,7 +689,7 @@ def envelope_of_regions(regions, planes, window):
     >>> [round(float(e.start[0]), 6) for e in env.edges]
     [10.0]
     """
-    from pourbaix.solve.envelope import Edge, Envelope
+    from pourbaix.solve.envelope import Edge, Envelope, unique_points
 
     x0, x1, y0, y1 = (float(v) for v in window)
     dx, dy = x1 - x0, y1 - y0
@@ -708,7 +708,7 @@ def envelope_of_regions(regions, planes, window):
         ]
     )
     uv = np.clip(uv, 0.0, 1.0)
-    uv = _merge_close(uv, _VERTEX_TOL)
+    uv = unique_points(uv, _VERTEX_TOL)
     vals = A[:, 0][None, :] + np.outer(uv[:, 0], A[:, 1]) + np.outer(uv[:, 1], A[:, 2])
     low = vals.min(axis=1)
     member = vals <= low[:, None] + _PLANE_TOL * (1.0 + np.abs(low).max())
@@ -762,17 +762,3 @@ def envelope_of_regions(regions, planes, window):
     return Envelope(polygons, edges, {}, (x0, x1, y0, y1))
 
 
-def _merge_close(points, tol):
-    """Points sorted by (u, v) with those within ``tol`` of an earlier one dropped."""
-    pts = points[np.lexsort((points[:, 1], points[:, 0]))]
-    keep = np.ones(len(pts), dtype=bool)
-    u, v = pts[:, 0].tolist(), pts[:, 1].tolist()
-    for a in range(len(u)):
-        if not keep[a]:
-            continue
-        b = a + 1
-        while b < len(u) and u[b] - u[a] <= tol:
-            if keep[b] and abs(v[b] - v[a]) <= tol:
-                keep[b] = False
-            b += 1
-    return pts[keep]

@@ -75,6 +75,23 @@ def _side(text: str) -> list[tuple[str, str]]:
     return out
 
 
+def _block_logk_source(lines: list[str], j: int) -> tuple[str, str, int]:
+    """Read a block from line ``j`` to the next blank line.
+
+    Returns its log_k, the first LogK/DGf source it cites, and the index of the blank line.
+    """
+    logk, source = "", ""
+    while j < len(lines) and lines[j].strip():
+        body = lines[j].strip()
+        if body.startswith("log_k"):
+            logk = body.split()[1]
+        m = re.search(r"LogK/DGf:\s*([^;]+);", body)
+        if m and not source:
+            source = m.group(1).strip()
+        j += 1
+    return logk, source, j
+
+
 def read_thermoddem_phases(path: str | Path) -> dict[str, ThermoddemPhase]:
     """Return name -> block of every mineral in the ``PHASES`` section."""
     lines = Path(path).read_text(encoding="latin-1").splitlines()
@@ -88,16 +105,7 @@ def read_thermoddem_phases(path: str | Path) -> dict[str, ThermoddemPhase]:
                 break
             left, right = lines[k + 1].split(" = ", 1)
             terms = _side(left)
-            logk, source = "", ""
-            j = k + 2
-            while j < len(lines) and lines[j].strip():
-                body = lines[j].strip()
-                if body.startswith("log_k"):
-                    logk = body.split()[1]
-                m = re.search(r"LogK/DGf:\s*([^;]+);", body)
-                if m and not source:
-                    source = m.group(1).strip()
-                j += 1
+            logk, source, j = _block_logk_source(lines, k + 2)
             out[text.strip()] = ThermoddemPhase(
                 text.strip(),
                 k + 1,
@@ -131,16 +139,7 @@ def read_thermoddem_species(path: str | Path) -> dict[str, ThermoddemPhase]:
             continue
         left, right = text.split(" = ", 1)
         formed, *others = _side(right)
-        logk, source = "", ""
-        j = k + 1
-        while j < len(lines) and lines[j].strip():
-            body = lines[j].strip()
-            if body.startswith("log_k"):
-                logk = body.split()[1]
-            m = re.search(r"LogK/DGf:\s*([^;]+);", body)
-            if m and not source:
-                source = m.group(1).strip()
-            j += 1
+        logk, source, _ = _block_logk_source(lines, k + 1)
         out.setdefault(
             formed[1],
             ThermoddemPhase(
